@@ -1,0 +1,184 @@
+//! sRGB transfer functions (IEC 61966-2-1) and the exact 8-bit encoder used by every panel.
+//!
+//! All lighting in twinshade is done in linear light. Pixels are written as 8-bit sRGB by
+//! [`encode_srgb8`], which must give exactly `floor(255 * encode(l) + 0.5)` with the reference
+//! transfer function but without calling `powf` per pixel: `powf` in software on wasm costs
+//! about 44 ns a call (shared/peers/README.md). The encoder therefore searches a table of the
+//! 255 linear-light thresholds at which the output byte changes. The thresholds are found once,
+//! by bisection over f32 bit patterns against the reference function itself, so the fast path
+//! agrees with the reference on every f32 input by construction (a test checks all of them
+//! between 0 and 1).
+
+use std::sync::OnceLock;
+
+/// Decodes one sRGB-encoded component (0..=1) to linear light, in f64 (IEC 61966-2-1).
+pub fn srgb_to_linear_f64(v: f64) -> f64 {
+    if v <= 0.04045 {
+        v / 12.92
+    } else {
+        libm::pow((v + 0.055) / 1.055, 2.4)
+    }
+}
+
+/// Encodes one linear-light component (0..=1) to sRGB, in f64 (IEC 61966-2-1).
+pub fn linear_to_srgb_f64(l: f64) -> f64 {
+    if l <= 0.003_130_8 {
+        12.92 * l
+    } else {
+        1.055 * libm::pow(l, 1.0 / 2.4) - 0.055
+    }
+}
+
+/// Decodes one sRGB-encoded component (0..=1) to linear light, in f32.
+pub fn srgb_to_linear(v: f32) -> f32 {
+    if v <= 0.04045 {
+        v / 12.92
+    } else {
+        libm::powf((v + 0.055) / 1.055, 2.4)
+    }
+}
+
+/// Encodes one linear-light component to sRGB in f32: the reference for [`encode_srgb8`].
+pub fn linear_to_srgb(l: f32) -> f32 {
+    if l <= 0.003_130_8 {
+        12.92 * l
+    } else {
+        1.055 * libm::powf(l, 1.0 / 2.4) - 0.055
+    }
+}
+
+/// The reference 8-bit encoding: clamp to 0..=1, encode, `floor(255 e + 0.5)`. NaN gives 0.
+pub fn encode_srgb8_reference(l: f32) -> u8 {
+    let l = if l > 0.0 { l.min(1.0) } else { 0.0 };
+    let e = linear_to_srgb(l);
+    let b = (255.0 * e + 0.5).floor();
+    b.clamp(0.0, 255.0) as u8
+}
+
+/// Linear-light thresholds: `t[b]` is the smallest f32 whose reference byte is `b` (b >= 1).
+struct Thresholds {
+    t: [f32; 256],
+    /// For each bucket of the linear range (by f32 bit pattern, see `bucket`), the byte
+    /// of the bucket's lower end; the search then walks up at most a few thresholds.
+    start: [u8; BUCKETS],
+}
+
+const BUCKETS: usize = 1024;
+
+/// Maps a linear value in (0, 1] to a bucket by the top bits of its f32 representation.
+/// Values below 2^-12 (bytes 0..=3 region) fall into bucket 0.
+#[inline(always)]
+fn bucket(l: f32) -> usize {
+    // Exponents -12..=0 (13 binades) times 64 mantissa steps = 832 buckets used.
+    let bits = l.to_bits();
+    let b = bits.saturating_sub(0x3980_0000) >> 17; // 0x3980_0000 = 2^-12
+    (b as usize).min(BUCKETS - 1)
+}
+
+fn thresholds() -> &'static Thresholds {
+    static T: OnceLock<Thresholds> = OnceLock::new();
+    T.get_or_init(|| {
+        let mut t = [0.0f32; 256];
+        for (b, slot) in t.iter_mut().enumerate().skip(1) {
+            // Bisect over the bit patterns of non-negative floats (monotone in value).
+            let (mut lo, mut hi) = (0u32, 1.0f32.to_bits());
+            while lo < hi {
+                let mid = lo + (hi - lo) / 2;
+                if encode_srgb8_reference(f32::from_bits(mid)) as usize >= b {
+                    hi = mid;
+                } else {
+                    lo = mid + 1;
+                }
+            }
+            *slot = f32::from_bits(lo);
+        }
+        let mut start = [0u8; BUCKETS];
+        for (i, s) in start.iter_mut().enumerate() {
+            let lower = f32::from_bits(0x3980_0000 + ((i as u32) << 17));
+            let lower = if i == 0 { 0.0 } else { lower };
+            *s = encode_srgb8_reference(lower);
+        }
+        Thresholds { t, start }
+    })
+}
+
+/// Encodes linear light to an 8-bit sRGB byte, exactly as [`encode_srgb8_reference`] does,
+/// by table search (no `powf`). Out-of-range values clamp; NaN gives 0.
+#[inline]
+pub fn encode_srgb8(l: f32) -> u8 {
+    let th = thresholds();
+    encode_with(th, l)
+}
+
+#[inline(always)]
+fn encode_with(th: &Thresholds, l: f32) -> u8 {
+    if !(l > 0.0) {
+        return 0;
+    }
+    if l >= 1.0 {
+        return 255;
+    }
+    let mut b = th.start[bucket(l)] as usize;
+    while b < 255 && l >= th.t[b + 1] {
+        b += 1;
+    }
+    b as u8
+}
+
+/// A handle to the encoder tables, for hot loops that encode many pixels: it avoids the
+/// lazy-initialisation check per call.
+#[derive(Clone, Copy)]
+pub struct SrgbEncoder {
+    th: &'static Thresholds,
+}
+
+impl Default for SrgbEncoder {
+    fn default() -> Self {
+        Self::new()
+    }
+}
+
+impl SrgbEncoder {
+    /// Builds (once per process) and returns the encoder tables.
+    pub fn new() -> Self {
+        Self { th: thresholds() }
+    }
+
+    /// Same as [`encode_srgb8`].
+    #[inline(always)]
+    pub fn encode(&self, l: f32) -> u8 {
+        encode_with(self.th, l)
+    }
+
+    /// Packs a linear RGB colour into an opaque RGBA8 pixel (R in the lowest byte).
+    #[inline(always)]
+    pub fn pack(&self, r: f32, g: f32, b: f32) -> u32 {
+        u32::from(self.encode(r))
+            | u32::from(self.encode(g)) << 8
+            | u32::from(self.encode(b)) << 16
+            | 0xff00_0000
+    }
+}
+
+/// Parses `#rrggbb` into sRGB bytes.
+///
+/// # Errors
+/// Returns a message naming the text when it is not a 6-digit hex colour.
+pub fn parse_hex(s: &str) -> Result<[u8; 3], String> {
+    let h = s.strip_prefix('#').unwrap_or(s);
+    if h.len() != 6 || !h.bytes().all(|c| c.is_ascii_hexdigit()) {
+        return Err(format!("'{s}' is not a colour of the form #rrggbb"));
+    }
+    let byte = |i: usize| u8::from_str_radix(&h[i..i + 2], 16).map_err(|e| e.to_string());
+    Ok([byte(0)?, byte(2)?, byte(4)?])
+}
+
+/// Formats sRGB bytes as `#rrggbb`.
+pub fn to_hex(c: [u8; 3]) -> String {
+    format!("#{:02x}{:02x}{:02x}", c[0], c[1], c[2])
+}
+
+/// Decodes sRGB bytes to linear-light RGB.
+pub fn srgb8_to_linear(c: [u8; 3]) -> [f32; 3] {
+    c.map(|v| srgb_to_linear(f32::from(v) / 255.0))
+}

@@ -1,0 +1,34 @@
+//! twinshade: one mesh, light and material lit per vertex (Gouraud) and per pixel (Phong),
+//! side by side, rendered on the CPU with bit-identical results natively and in WebAssembly.
+//!
+//! The core (everything but [`cli`] and `web`) is platform-free Rust: meshes, shading,
+//! rasterization, colour and scenes. `web` (wasm32 only) is the one file that talks to
+//! JavaScript; [`cli`] (native only) is the command line. See DEVELOPERS.md, "Architecture".
+#![warn(missing_docs)]
+
+#[cfg(target_endian = "big")]
+compile_error!("twinshade's framebuffers are RGBA bytes in little-endian u32s");
+
+pub mod camera;
+pub mod clip;
+pub mod color;
+pub mod framebuffer;
+pub mod lighting;
+pub mod mesh;
+pub mod normals;
+pub mod raster;
+pub mod render;
+pub mod scene;
+pub mod shapes;
+pub mod sheet;
+pub mod vertex_buffer;
+
+#[cfg(not(target_arch = "wasm32"))]
+pub mod cli;
+#[cfg(target_arch = "wasm32")]
+mod web;
+
+pub use framebuffer::Framebuffer;
+pub use mesh::Mesh;
+pub use render::{PanelStats, Renderer, ShadingMode};
+pub use scene::{Scene, SceneError};

@@ -1,0 +1,229 @@
+//! Triangle coverage and interpolation: the one rasterizer every shading mode goes through.
+//!
+//! Coverage is decided with integer edge functions on vertices snapped to
+//! [`SUBPIXEL_BITS`] bits of sub-pixel precision, with pixel centres at (x + 0.5, y + 0.5) and
+//! the top-left fill rule (Direct3D 11 "Rasterization Rules"; Vulkan "Basic Polygon
+//! Rasterization"): a centre exactly on an edge belongs to the triangle only if the edge is a
+//! top or a left edge, so triangles sharing an edge never draw a pixel twice and never leave a
+//! crack. Integer arithmetic makes that exact, independent of float rounding.
+//!
+//! Attributes are interpolated with plane equations set up once per triangle. In perspective
+//! mode the planes carry a/w and 1/w and each fragment divides (Vulkan: f = sum(l_i f_i / w_i) /
+//! sum(l_i / w_i)); in affine mode they carry a directly. Everything per fragment (the divide,
+//! the varyings, the shading) happens only after the depth test passes.
+
+/// Sub-pixel bits of the fixed-point screen coordinates.
+pub const SUBPIXEL_BITS: u32 = 8;
+const ONE: i64 = 1 << SUBPIXEL_BITS;
+const HALF: i64 = ONE / 2;
+
+/// A render target: packed RGBA8 colour (R in the lowest byte) and f32 depth, row 0 at the top,
+/// `width` pixels per row, no padding.
+pub struct Target<'a> {
+    /// Colour, `width * height` pixels.
+    pub color: &'a mut [u32],
+    /// Depth (NDC z, smaller is nearer), `width * height` values.
+    pub depth: &'a mut [f32],
+    /// Pixels per row.
+    pub width: usize,
+    /// Rows.
+    pub height: usize,
+}
+
+/// A vertex after projection: screen position in pixels (x right, y down), NDC depth, 1/w
+/// and `N` varyings (already multiplied by 1/w in perspective mode).
+#[derive(Clone, Copy, Debug)]
+pub struct RasterVertex<const N: usize> {
+    /// Screen x in pixels.
+    pub x: f32,
+    /// Screen y in pixels, down.
+    pub y: f32,
+    /// NDC depth.
+    pub z: f32,
+    /// 1 / clip w.
+    pub inv_w: f32,
+    /// Varyings (times 1/w in perspective mode).
+    pub var: [f32; N],
+}
+
+/// The shading stage: turns interpolated varyings into a packed RGBA8 pixel.
+pub trait FragmentShader<const N: usize> {
+    /// Shades one fragment that passed the depth test.
+    fn shade(&self, var: &[f32; N]) -> u32;
+}
+
+/// Which triangles to skip by facing.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Cull {
+    /// Draw both faces.
+    None,
+    /// Skip triangles whose corners run clockwise on screen (back faces).
+    Back,
+}
+
+/// A linear function of the pixel position, evaluated per row then per pixel:
+/// value(x, y) = row(y) + dx * x.
+#[derive(Clone, Copy, Default)]
+struct Plane {
+    dx: f32,
+    dy: f32,
+    /// Value at the centre of pixel (0, 0).
+    origin: f32,
+}
+
+impl Plane {
+    /// The plane through (0, a0), (d1, a1), (d2, a2), with d = vertex offsets from vertex 0
+    /// in pixels and `inv_area` = 1 / (dx1 dy2 - dy1 dx2); `o` = vertex 0 in pixels.
+    #[inline(always)]
+    fn new(a: [f32; 3], d: [f32; 4], inv_area: f32, o: (f32, f32)) -> Plane {
+        let (d1, d2) = (a[1] - a[0], a[2] - a[0]);
+        let dx = (d1 * d[3] - d2 * d[1]) * inv_area;
+        let dy = (d2 * d[0] - d1 * d[2]) * inv_area;
+        Plane {
+            dx,
+            dy,
+            origin: a[0] + dx * (0.5 - o.0) + dy * (0.5 - o.1),
+        }
+    }
+}
+
+/// Snaps a screen coordinate to fixed point. Callers keep coordinates within the clipper's
+/// guard band, so the product cannot overflow.
+#[inline(always)]
+fn snap(v: f32) -> i64 {
+    (v * ONE as f32).round() as i64
+}
+
+/// Draws one triangle; returns the number of fragments shaded (those that passed the depth
+/// test). `PERSP` selects perspective-correct (true) or screen-affine (false) interpolation.
+pub fn draw_triangle<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
+    target: &mut Target<'_>,
+    tri: [&RasterVertex<N>; 3],
+    cull: Cull,
+    shader: &S,
+) -> u32 {
+    let [v0, mut v1, mut v2] = tri;
+    let (x0, y0) = (snap(v0.x), snap(v0.y));
+    let (mut x1, mut y1) = (snap(v1.x), snap(v1.y));
+    let (mut x2, mut y2) = (snap(v2.x), snap(v2.y));
+    // Twice the signed area with y down: positive when the corners run clockwise on screen.
+    let area = (x1 - x0) * (y2 - y0) - (y1 - y0) * (x2 - x0);
+    if area == 0 {
+        return 0;
+    }
+    if area < 0 {
+        // Counter-clockwise on screen = front facing (CCW in NDC). Swap to positive area.
+        std::mem::swap(&mut v1, &mut v2);
+        std::mem::swap(&mut x1, &mut x2);
+        std::mem::swap(&mut y1, &mut y2);
+    } else if cull == Cull::Back {
+        return 0;
+    }
+
+    let w = target.width as i64;
+    let h = target.height as i64;
+    // Pixels whose centre (i * ONE + HALF) lies inside the snapped bounding box.
+    let min_x = x0.min(x1).min(x2);
+    let max_x = x0.max(x1).max(x2);
+    let min_y = y0.min(y1).min(y2);
+    let max_y = y0.max(y1).max(y2);
+    let px0 = ((min_x - HALF + ONE - 1) >> SUBPIXEL_BITS).max(0);
+    let px1 = ((max_x - HALF) >> SUBPIXEL_BITS).min(w - 1);
+    let py0 = ((min_y - HALF + ONE - 1) >> SUBPIXEL_BITS).max(0);
+    let py1 = ((max_y - HALF) >> SUBPIXEL_BITS).min(h - 1);
+    if px0 > px1 || py0 > py1 {
+        return 0;
+    }
+
+    // Edge function of the edge a -> b at point p (positive inside):
+    //   E(p) = (bx - ax)(py - ay) - (by - ay)(px - ax) = A px + B py + C,
+    //   A = ay - by, B = bx - ax.
+    // Edge i is opposite vertex i. A top edge has A == 0 and B > 0 (horizontal, inside
+    // below); a left edge has A > 0. Other edges exclude their own centres: bias -1.
+    let edge = |ax: i64, ay: i64, bx: i64, by: i64| {
+        let (a, b) = (ay - by, bx - ax);
+        let c = -(a * ax + b * ay);
+        let top_left = a > 0 || (a == 0 && b > 0);
+        (a, b, c + if top_left { 0 } else { -1 })
+    };
+    let e = [
+        edge(x1, y1, x2, y2),
+        edge(x2, y2, x0, y0),
+        edge(x0, y0, x1, y1),
+    ];
+    // Per-pixel steps (one pixel = ONE sub-pixel units) and the value at the first centre.
+    let step_x = [e[0].0 * ONE, e[1].0 * ONE, e[2].0 * ONE];
+    let step_y = [e[0].1 * ONE, e[1].1 * ONE, e[2].1 * ONE];
+    let (cx, cy) = (px0 * ONE + HALF, py0 * ONE + HALF);
+    let mut row = [
+        e[0].0 * cx + e[0].1 * cy + e[0].2,
+        e[1].0 * cx + e[1].1 * cy + e[1].2,
+        e[2].0 * cx + e[2].1 * cy + e[2].2,
+    ];
+
+    // Attribute planes, in pixel units relative to vertex 0 (snapped positions).
+    let s = 1.0 / ONE as f32;
+    let o = (x0 as f32 * s, y0 as f32 * s);
+    let d = [
+        (x1 - x0) as f32 * s,
+        (y1 - y0) as f32 * s,
+        (x2 - x0) as f32 * s,
+        (y2 - y0) as f32 * s,
+    ];
+    let inv_area = 1.0 / (d[0] * d[3] - d[1] * d[2]);
+    let z = Plane::new([v0.z, v1.z, v2.z], d, inv_area, o);
+    let q = Plane::new([v0.inv_w, v1.inv_w, v2.inv_w], d, inv_area, o);
+    let mut var = [Plane::default(); N];
+    for (k, p) in var.iter_mut().enumerate() {
+        *p = Plane::new([v0.var[k], v1.var[k], v2.var[k]], d, inv_area, o);
+    }
+
+    let mut shaded = 0u32;
+    let mut frag = [0.0f32; N];
+    let mut var_row = [0.0f32; N];
+    for py in py0..=py1 {
+        let yf = py as f32;
+        // Row values of the planes; each pixel then adds dx * x (no running sums, so the
+        // value at a pixel does not depend on where the row started).
+        let z_row = z.origin + z.dy * yf;
+        let q_row = q.origin + q.dy * yf;
+        for k in 0..N {
+            var_row[k] = var[k].origin + var[k].dy * yf;
+        }
+        let mut ev = row;
+        let base = py as usize * target.width;
+        let mut entered = false;
+        for px in px0..=px1 {
+            if (ev[0] | ev[1] | ev[2]) >= 0 {
+                entered = true;
+                let xf = px as f32;
+                let zv = z_row + z.dx * xf;
+                let i = base + px as usize;
+                if zv < target.depth[i] {
+                    target.depth[i] = zv;
+                    if PERSP {
+                        let wv = 1.0 / (q_row + q.dx * xf);
+                        for k in 0..N {
+                            frag[k] = (var_row[k] + var[k].dx * xf) * wv;
+                        }
+                    } else {
+                        for k in 0..N {
+                            frag[k] = var_row[k] + var[k].dx * xf;
+                        }
+                    }
+                    target.color[i] = shader.shade(&frag);
+                    shaded += 1;
+                }
+            } else if entered {
+                break; // convex: once out again, the rest of the row is out
+            }
+            ev[0] += step_x[0];
+            ev[1] += step_x[1];
+            ev[2] += step_x[2];
+        }
+        row[0] += step_y[0];
+        row[1] += step_y[1];
+        row[2] += step_y[2];
+    }
+    shaded
+}

@@ -1,0 +1,542 @@
+//! The pipeline: geometry preparation, vertex transform, clipping and one rasterizer for
+//! every shading mode.
+//!
+//! The shading modes differ only in the varyings they hand the rasterizer and the fragment
+//! stage that consumes them:
+//! - flat: nothing interpolated; one colour per face, lit at the face centroid;
+//! - Gouraud: lighting at each render vertex (once), linear colour interpolated, sRGB-encoded
+//!   per pixel (H. Gouraud, IEEE Trans. Computers C-20(6), 1971);
+//! - Phong: world normal and position interpolated, the normal renormalised and lit per pixel
+//!   (B. T. Phong, CACM 18(6), 1975);
+//! - exact: the object-space position interpolated and lit with the analytic surface's true
+//!   normal (for procedural shapes that have one; others fall back to Phong).
+//!
+//! Work that does not depend on the panel (vertex transform, outcodes, screen projection) is
+//! done once per frame and reused by every panel; buffers are kept between frames, so a frame
+//! allocates nothing once sizes are stable.
+
+use crate::camera::CameraFrame;
+use crate::clip::{outcode, ClipPolygon, ClipVertex};
+use crate::color::{parse_hex, SrgbEncoder};
+use crate::framebuffer::Framebuffer;
+use crate::lighting::Lighting;
+use crate::mesh::Mesh;
+use crate::normals::compute_normals;
+use crate::raster::{draw_triangle, Cull, FragmentShader, RasterVertex, Target};
+use crate::scene::{MeshSource, NormalSettings, NormalSource, Scene, SceneError};
+use crate::shapes::Shape;
+use crate::vertex_buffer::{Triangulation, VertexBuffer};
+use glam::{Mat3, Quat, Vec3, Vec4};
+use serde::{Deserialize, Serialize};
+
+/// Where lighting is computed.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Hash)]
+#[serde(rename_all = "lowercase")]
+pub enum ShadingMode {
+    /// One colour per face.
+    Flat,
+    /// Per vertex, colours interpolated.
+    Gouraud,
+    /// Per pixel, normals interpolated.
+    Phong,
+    /// Per pixel with the analytic surface's true normal.
+    Exact,
+}
+
+impl ShadingMode {
+    /// A label for the panel.
+    pub fn label(self) -> &'static str {
+        match self {
+            ShadingMode::Flat => "Flat (per face)",
+            ShadingMode::Gouraud => "Gouraud (per vertex)",
+            ShadingMode::Phong => "Phong (per pixel)",
+            ShadingMode::Exact => "Exact surface (reference)",
+        }
+    }
+}
+
+/// What one panel's frame cost.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Serialize)]
+pub struct PanelStats {
+    /// Lighting evaluations at vertices (Gouraud) or faces (flat).
+    pub lit_vertices: u64,
+    /// Fragments shaded (passed the depth test); for Phong and exact also lighting evaluations.
+    pub fragments: u64,
+    /// Triangles in the mesh.
+    pub triangles: u64,
+}
+
+/// The mesh as prepared for drawing, with the settings it was prepared from.
+struct Geometry {
+    source: MeshSource,
+    normals: NormalSettings,
+    triangulation: Triangulation,
+    generation: u64,
+    vb: VertexBuffer,
+    shape: Option<Shape>,
+}
+
+/// Inputs of the per-frame vertex work; when they repeat, the work is reused.
+#[derive(Clone, Copy, PartialEq)]
+struct FrameKey {
+    generation: u64,
+    rotation: [f32; 4],
+    camera: crate::camera::Camera,
+    width: usize,
+    height: usize,
+}
+
+/// Renders scenes into framebuffers. Holds the prepared mesh and per-frame scratch buffers.
+#[derive(Default)]
+pub struct Renderer {
+    imported: Option<Mesh>,
+    imported_generation: u64,
+    geometry: Option<Geometry>,
+    generation: u64,
+    frame_key: Option<FrameKey>,
+    world_pos: Vec<Vec3>,
+    world_nrm: Vec<Vec3>,
+    clip: Vec<Vec4>,
+    outcodes: Vec<u8>,
+    screen: Vec<[f32; 4]>,
+    vertex_color: Vec<Vec3>,
+    face_color: Vec<u32>,
+}
+
+impl Renderer {
+    /// A renderer with nothing prepared.
+    pub fn new() -> Self {
+        Self::default()
+    }
+
+    /// Supplies the mesh used when a scene's source is [`MeshSource::File`]. The mesh must
+    /// have passed [`Mesh::validate`].
+    pub fn set_file_mesh(&mut self, mesh: Mesh) {
+        self.imported = Some(mesh);
+        self.imported_generation += 1;
+        self.geometry = None;
+    }
+
+    /// The prepared vertex buffer, if a frame was rendered.
+    pub fn vertex_buffer(&self) -> Option<&VertexBuffer> {
+        self.geometry.as_ref().map(|g| &g.vb)
+    }
+
+    fn prepare_geometry(&mut self, scene: &Scene) -> Result<(), SceneError> {
+        if let Some(g) = &self.geometry {
+            if g.source == scene.mesh
+                && g.normals == scene.normals
+                && g.triangulation == scene.triangulation
+            {
+                return Ok(());
+            }
+        }
+        let (mesh, shape) = match &scene.mesh {
+            MeshSource::Shape(shape) => {
+                shape.validate().map_err(SceneError)?;
+                (shape.build(), Some(*shape))
+            }
+            MeshSource::File { name } => match &self.imported {
+                Some(m) => (m.clone(), None),
+                None => {
+                    return Err(SceneError(format!(
+                        "the mesh file '{name}' has not been loaded"
+                    )))
+                }
+            },
+        };
+        let mesh = if scene.normals.source == NormalSource::Computed || !mesh.has_normals() {
+            compute_normals(&mesh, scene.normals.weighting, scene.normals.crease_deg)
+        } else {
+            mesh
+        };
+        let vb = VertexBuffer::build(&mesh, scene.triangulation);
+        self.generation += 1;
+        self.geometry = Some(Geometry {
+            source: scene.mesh.clone(),
+            normals: scene.normals,
+            triangulation: scene.triangulation,
+            generation: self.generation + (self.imported_generation << 32),
+            vb,
+            shape,
+        });
+        Ok(())
+    }
+
+    /// Renders `scene` with `mode` into `fb`, resizing it to the scene's panel size.
+    ///
+    /// # Errors
+    /// When the scene is invalid or names a mesh file that was not supplied.
+    pub fn render(
+        &mut self,
+        scene: &Scene,
+        mode: ShadingMode,
+        fb: &mut Framebuffer,
+    ) -> Result<PanelStats, SceneError> {
+        scene.validate()?;
+        self.prepare_geometry(scene)?;
+        let (width, height) = (scene.panel.width as usize, scene.panel.height as usize);
+        if fb.width() != width || fb.height() != height {
+            fb.resize(width, height);
+        }
+        let bg = parse_hex(&scene.background).map_err(SceneError)?;
+        fb.clear(u32::from_le_bytes([bg[0], bg[1], bg[2], 255]));
+        let camera = scene.camera.frame(width as f32 / height as f32);
+        let rotation = scene.rotation_quat();
+        self.transform(scene, &camera, rotation, width, height);
+        let lighting = Lighting::new(
+            &scene.lights,
+            &scene.ambient_light,
+            &scene.material,
+            scene.model,
+            &camera,
+        )
+        .map_err(SceneError)?;
+        let cull = if scene.cull_back_faces {
+            Cull::Back
+        } else {
+            Cull::None
+        };
+        let persp = scene.perspective_correct;
+        let Some(geo) = self.geometry.as_ref() else {
+            return Err(SceneError("no mesh prepared".into()));
+        };
+        let enc = SrgbEncoder::new();
+        let mut stats = PanelStats {
+            triangles: geo.vb.triangles.len() as u64,
+            ..Default::default()
+        };
+        let ctx = DrawContext {
+            tris: &geo.vb.triangles,
+            clip: &self.clip,
+            outcodes: &self.outcodes,
+            screen: &self.screen,
+            size: (width as f32, height as f32),
+            cull,
+        };
+        let (color, depth) = fb.planes_mut();
+        let mut target = Target {
+            color,
+            depth,
+            width,
+            height,
+        };
+        let mode = if mode == ShadingMode::Exact
+            && geo.shape.and_then(|s| s.exact_normal(Vec3::X)).is_none()
+        {
+            ShadingMode::Phong
+        } else {
+            mode
+        };
+        stats.fragments = match mode {
+            ShadingMode::Flat => {
+                let vb = &geo.vb;
+                self.face_color.clear();
+                for f in 0..vb.polygon_count() {
+                    let poly = vb.polygon(f);
+                    let mut n = Vec3::ZERO;
+                    let mut c = Vec3::ZERO;
+                    let p0 = self.world_pos[poly[0] as usize];
+                    for i in 1..poly.len() - 1 {
+                        let a = self.world_pos[poly[i] as usize] - p0;
+                        let b = self.world_pos[poly[i + 1] as usize] - p0;
+                        n += a.cross(b);
+                    }
+                    for &v in poly {
+                        c += self.world_pos[v as usize];
+                    }
+                    let col = lighting.shade(n.normalize_or_zero(), c / poly.len() as f32);
+                    self.face_color.push(enc.pack(col.x, col.y, col.z));
+                }
+                stats.lit_vertices = vb.polygon_count() as u64;
+                let faces = &self.face_color;
+                let tri_face = &vb.triangle_face;
+                ctx.draw(
+                    &mut target,
+                    persp,
+                    |_| [],
+                    |t| Constant(faces[tri_face[t] as usize]),
+                )
+            }
+            ShadingMode::Gouraud => {
+                self.vertex_color.clear();
+                self.vertex_color.extend(
+                    self.world_nrm
+                        .iter()
+                        .zip(&self.world_pos)
+                        .map(|(n, p)| lighting.shade(*n, *p)),
+                );
+                stats.lit_vertices = self.vertex_color.len() as u64;
+                let colors = &self.vertex_color;
+                let shader = VertexColor { enc };
+                ctx.draw(
+                    &mut target,
+                    persp,
+                    |v| colors[v as usize].to_array(),
+                    |_| shader,
+                )
+            }
+            ShadingMode::Phong => {
+                let (n, p) = (&self.world_nrm, &self.world_pos);
+                let shader = PerPixel {
+                    lighting: &lighting,
+                    enc,
+                };
+                ctx.draw(
+                    &mut target,
+                    persp,
+                    |v| {
+                        let (n, p) = (n[v as usize], p[v as usize]);
+                        [n.x, n.y, n.z, p.x, p.y, p.z]
+                    },
+                    |_| shader,
+                )
+            }
+            ShadingMode::Exact => {
+                let shape = geo.shape.unwrap_or_default();
+                let shader = ExactSurface {
+                    lighting: &lighting,
+                    enc,
+                    shape,
+                    rotation: Mat3::from_quat(rotation),
+                };
+                let pos = &geo.vb.positions;
+                ctx.draw(
+                    &mut target,
+                    persp,
+                    |v| pos[v as usize].to_array(),
+                    |_| shader,
+                )
+            }
+        };
+        Ok(stats)
+    }
+
+    /// Transforms every render vertex to world and clip space and projects the ones inside
+    /// all clip planes to the screen. Skipped when nothing it depends on changed.
+    fn transform(
+        &mut self,
+        scene: &Scene,
+        camera: &CameraFrame,
+        rotation: Quat,
+        width: usize,
+        height: usize,
+    ) {
+        let Some(geo) = self.geometry.as_ref() else {
+            return;
+        };
+        let key = FrameKey {
+            generation: geo.generation,
+            rotation: scene.rotation,
+            camera: scene.camera,
+            width,
+            height,
+        };
+        if self.frame_key == Some(key) {
+            return;
+        }
+        let r = Mat3::from_quat(rotation);
+        let vb = &geo.vb;
+        let (w, h) = (width as f32, height as f32);
+        self.world_pos.clear();
+        self.world_nrm.clear();
+        self.clip.clear();
+        self.outcodes.clear();
+        self.screen.clear();
+        for (p, n) in vb.positions.iter().zip(&vb.normals) {
+            let pw = r * *p;
+            let c = camera.view_proj * pw.extend(1.0);
+            let code = outcode(c);
+            self.world_pos.push(pw);
+            self.world_nrm.push(r * *n);
+            self.clip.push(c);
+            self.outcodes.push(code);
+            self.screen.push(if code == 0 {
+                project(c, w, h)
+            } else {
+                [0.0; 4]
+            });
+        }
+        self.frame_key = Some(key);
+    }
+}
+
+/// Viewport transform of a clip-space point inside the clip volume: (x px, y px down, NDC z,
+/// 1/w). Pixel centres are at half-integers.
+#[inline(always)]
+fn project(c: Vec4, w: f32, h: f32) -> [f32; 4] {
+    let iw = 1.0 / c.w;
+    [
+        (c.x * iw + 1.0) * 0.5 * w,
+        (1.0 - c.y * iw) * 0.5 * h,
+        c.z * iw,
+        iw,
+    ]
+}
+
+/// Per-frame inputs shared by every triangle of a panel.
+struct DrawContext<'a> {
+    tris: &'a [[u32; 3]],
+    clip: &'a [Vec4],
+    outcodes: &'a [u8],
+    screen: &'a [[f32; 4]],
+    size: (f32, f32),
+    cull: Cull,
+}
+
+impl DrawContext<'_> {
+    /// Draws every triangle with varyings from `varying(vertex)` and the fragment stage
+    /// `shader_for(triangle)`; returns fragments shaded.
+    fn draw<const N: usize, S: FragmentShader<N>>(
+        &self,
+        target: &mut Target<'_>,
+        perspective: bool,
+        varying: impl Fn(u32) -> [f32; N],
+        shader_for: impl Fn(usize) -> S,
+    ) -> u64 {
+        if perspective {
+            self.draw_with::<N, true, S>(target, varying, shader_for)
+        } else {
+            self.draw_with::<N, false, S>(target, varying, shader_for)
+        }
+    }
+
+    fn draw_with<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
+        &self,
+        target: &mut Target<'_>,
+        varying: impl Fn(u32) -> [f32; N],
+        shader_for: impl Fn(usize) -> S,
+    ) -> u64 {
+        let mut shaded = 0u64;
+        let (w, h) = self.size;
+        for (t, tri) in self.tris.iter().enumerate() {
+            let codes = tri.map(|v| self.outcodes[v as usize]);
+            if codes[0] & codes[1] & codes[2] != 0 {
+                continue; // entirely outside one plane
+            }
+            let shader = shader_for(t);
+            if codes[0] | codes[1] | codes[2] == 0 {
+                let rv = tri.map(|v| {
+                    let s = self.screen[v as usize];
+                    let mut var = varying(v);
+                    if PERSP {
+                        for x in &mut var {
+                            *x *= s[3];
+                        }
+                    }
+                    RasterVertex {
+                        x: s[0],
+                        y: s[1],
+                        z: s[2],
+                        inv_w: s[3],
+                        var,
+                    }
+                });
+                shaded += u64::from(draw_triangle::<N, PERSP, S>(
+                    target,
+                    [&rv[0], &rv[1], &rv[2]],
+                    self.cull,
+                    &shader,
+                ));
+                continue;
+            }
+            let poly = ClipPolygon::clip(tri.map(|v| ClipVertex {
+                pos: self.clip[v as usize],
+                var: varying(v),
+            }));
+            if poly.len < 3 {
+                continue;
+            }
+            let mut rv = [RasterVertex {
+                x: 0.0,
+                y: 0.0,
+                z: 0.0,
+                inv_w: 0.0,
+                var: [0.0; N],
+            }; crate::clip::MAX_CLIPPED];
+            for (out, c) in rv.iter_mut().zip(&poly.verts[..poly.len]) {
+                let s = project(c.pos, w, h);
+                let mut var = c.var;
+                if PERSP {
+                    for x in &mut var {
+                        *x *= s[3];
+                    }
+                }
+                *out = RasterVertex {
+                    x: s[0],
+                    y: s[1],
+                    z: s[2],
+                    inv_w: s[3],
+                    var,
+                };
+            }
+            for i in 1..poly.len - 1 {
+                shaded += u64::from(draw_triangle::<N, PERSP, S>(
+                    target,
+                    [&rv[0], &rv[i], &rv[i + 1]],
+                    self.cull,
+                    &shader,
+                ));
+            }
+        }
+        shaded
+    }
+}
+
+/// Flat: a constant colour.
+#[derive(Clone, Copy)]
+struct Constant(u32);
+
+impl FragmentShader<0> for Constant {
+    #[inline(always)]
+    fn shade(&self, _: &[f32; 0]) -> u32 {
+        self.0
+    }
+}
+
+/// Gouraud: the interpolated linear colour, encoded.
+#[derive(Clone, Copy)]
+struct VertexColor {
+    enc: SrgbEncoder,
+}
+
+impl FragmentShader<3> for VertexColor {
+    #[inline(always)]
+    fn shade(&self, v: &[f32; 3]) -> u32 {
+        self.enc.pack(v[0], v[1], v[2])
+    }
+}
+
+/// Phong: renormalised interpolated normal, lit at the interpolated position.
+#[derive(Clone, Copy)]
+struct PerPixel<'a> {
+    lighting: &'a Lighting,
+    enc: SrgbEncoder,
+}
+
+impl FragmentShader<6> for PerPixel<'_> {
+    #[inline(always)]
+    fn shade(&self, v: &[f32; 6]) -> u32 {
+        let n = Vec3::new(v[0], v[1], v[2]).normalize_or_zero();
+        let c = self.lighting.shade(n, Vec3::new(v[3], v[4], v[5]));
+        self.enc.pack(c.x, c.y, c.z)
+    }
+}
+
+/// Exact: the analytic normal at the interpolated object-space point.
+#[derive(Clone, Copy)]
+struct ExactSurface<'a> {
+    lighting: &'a Lighting,
+    enc: SrgbEncoder,
+    shape: Shape,
+    rotation: Mat3,
+}
+
+impl FragmentShader<3> for ExactSurface<'_> {
+    fn shade(&self, v: &[f32; 3]) -> u32 {
+        let p = Vec3::from_array(*v);
+        let n = self.shape.exact_normal(p).unwrap_or(Vec3::Z);
+        let c = self.lighting.shade(self.rotation * n, self.rotation * p);
+        self.enc.pack(c.x, c.y, c.z)
+    }
+}

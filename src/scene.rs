@@ -1,0 +1,329 @@
+//! The scene: everything that decides the pixels, as one serde value with a format version.
+//!
+//! The page, the command line and (later) share links all start from [`Scene::default`] and
+//! exchange scenes as JSON, so the defaults exist exactly once. Scenes from outside (files,
+//! links, the page) go through [`Scene::from_json`], which validates every field and never
+//! panics; a bad scene is refused whole and the caller keeps its previous one.
+
+use crate::camera::Camera;
+use crate::color::parse_hex;
+use crate::lighting::{Light, LightKind, Material, ReflectionModel, MAX_LIGHTS};
+use crate::normals::NormalWeighting;
+use crate::shapes::Shape;
+use crate::vertex_buffer::Triangulation;
+use glam::Quat;
+use serde::{Deserialize, Serialize};
+use std::fmt;
+
+/// The scene format version written by this build.
+pub const SCENE_VERSION: u32 = 1;
+
+/// Largest panel side in pixels.
+pub const MAX_PANEL_SIDE: u32 = 4096;
+
+/// Where the mesh comes from.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum MeshSource {
+    /// A procedural shape.
+    Shape(Shape),
+    /// A mesh file supplied separately (dropped on the page or named on the command line);
+    /// the scene only names it.
+    File {
+        /// The file name, for display and links.
+        name: String,
+    },
+}
+
+/// Use the mesh's own normals or compute them.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default)]
+#[serde(rename_all = "lowercase")]
+pub enum NormalSource {
+    /// Authored normals where every corner has one; computed otherwise.
+    #[default]
+    Authored,
+    /// Always computed from the faces.
+    Computed,
+}
+
+/// How vertex normals are obtained.
+#[derive(Clone, Copy, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(default, deny_unknown_fields)]
+pub struct NormalSettings {
+    /// Authored or computed.
+    pub source: NormalSource,
+    /// Weights when computing.
+    pub weighting: NormalWeighting,
+    /// Crease angle in degrees when computing (180 = smooth everything).
+    pub crease_deg: f32,
+}
+
+impl Default for NormalSettings {
+    fn default() -> Self {
+        NormalSettings {
+            source: NormalSource::Authored,
+            weighting: NormalWeighting::Angle,
+            crease_deg: 180.0,
+        }
+    }
+}
+
+/// Panel size in pixels (each panel; all panels have the same size).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct PanelSize {
+    /// Width in pixels, 1..=[`MAX_PANEL_SIDE`].
+    pub width: u32,
+    /// Height in pixels, 1..=[`MAX_PANEL_SIDE`].
+    pub height: u32,
+}
+
+impl Default for PanelSize {
+    fn default() -> Self {
+        PanelSize {
+            width: 480,
+            height: 360,
+        }
+    }
+}
+
+/// Everything that decides the pixels.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(default, deny_unknown_fields)]
+pub struct Scene {
+    /// Format version, 1..=[`SCENE_VERSION`].
+    pub version: u32,
+    /// The mesh.
+    pub mesh: MeshSource,
+    /// Vertex normals.
+    pub normals: NormalSettings,
+    /// How polygons become triangles.
+    pub triangulation: Triangulation,
+    /// The camera.
+    pub camera: Camera,
+    /// The mesh's rotation as a quaternion (x, y, z, w); normalised on use.
+    pub rotation: [f32; 4],
+    /// Up to [`MAX_LIGHTS`] lights, fixed in world space.
+    pub lights: Vec<Light>,
+    /// Ambient light colour, sRGB `#rrggbb`.
+    pub ambient_light: String,
+    /// The surface.
+    pub material: Material,
+    /// Specular reflection model.
+    pub model: ReflectionModel,
+    /// Skip faces turned away from the camera.
+    pub cull_back_faces: bool,
+    /// Perspective-correct interpolation (false: screen-affine, for comparison).
+    pub perspective_correct: bool,
+    /// Size of each panel.
+    pub panel: PanelSize,
+    /// Background colour, sRGB `#rrggbb`.
+    pub background: String,
+}
+
+impl Default for Scene {
+    /// The built-in demo: a glossy glazed-ceramic sphere of few triangles under a warm key
+    /// light and a cool fill, where per-vertex lighting visibly loses the highlight.
+    fn default() -> Self {
+        Scene {
+            version: SCENE_VERSION,
+            mesh: MeshSource::Shape(Shape::Icosphere { level: 2 }),
+            normals: NormalSettings::default(),
+            triangulation: Triangulation::Fan,
+            camera: Camera::default(),
+            rotation: [0.0, 0.0, 0.0, 1.0],
+            lights: vec![
+                Light {
+                    kind: LightKind::Directional,
+                    azimuth_deg: 35.0,
+                    elevation_deg: 30.0,
+                    color: "#fff4e0".into(),
+                    intensity: 1.0,
+                    ..Light::default()
+                },
+                Light {
+                    kind: LightKind::Point,
+                    azimuth_deg: -70.0,
+                    elevation_deg: -10.0,
+                    distance: 3.0,
+                    color: "#9fc3ff".into(),
+                    intensity: 0.5,
+                    falloff: 0.05,
+                },
+            ],
+            ambient_light: "#ffffff".into(),
+            material: Material::default(),
+            model: ReflectionModel::BlinnPhong,
+            cull_back_faces: true,
+            perspective_correct: true,
+            panel: PanelSize::default(),
+            background: "#1b1d22".into(),
+        }
+    }
+}
+
+/// Why a scene was refused.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct SceneError(pub String);
+
+impl fmt::Display for SceneError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(&self.0)
+    }
+}
+
+impl std::error::Error for SceneError {}
+
+fn finite(name: &str, v: f32) -> Result<(), SceneError> {
+    if v.is_finite() {
+        Ok(())
+    } else {
+        Err(SceneError(format!("{name} must be a finite number")))
+    }
+}
+
+fn in_range(name: &str, v: f32, lo: f32, hi: f32) -> Result<(), SceneError> {
+    if (lo..=hi).contains(&v) {
+        Ok(())
+    } else {
+        Err(SceneError(format!(
+            "{name} must be between {lo} and {hi}, not {v}"
+        )))
+    }
+}
+
+fn colour(name: &str, v: &str) -> Result<(), SceneError> {
+    parse_hex(v)
+        .map(|_| ())
+        .map_err(|e| SceneError(format!("{name}: {e}")))
+}
+
+impl Scene {
+    /// Parses and validates a scene from JSON; missing fields take their defaults.
+    ///
+    /// # Errors
+    /// A message naming the problem (syntax with line and column, unknown field, value out
+    /// of range).
+    pub fn from_json(text: &str) -> Result<Scene, SceneError> {
+        let scene: Scene =
+            serde_json::from_str(text).map_err(|e| SceneError(format!("scene JSON: {e}")))?;
+        scene.validate()?;
+        Ok(scene)
+    }
+
+    /// The scene as pretty JSON.
+    pub fn to_json(&self) -> String {
+        // Serialising plain data with string keys cannot fail.
+        serde_json::to_string_pretty(self).unwrap_or_default()
+    }
+
+    /// Checks every field's range.
+    ///
+    /// # Errors
+    /// The first problem found.
+    pub fn validate(&self) -> Result<(), SceneError> {
+        if self.version == 0 || self.version > SCENE_VERSION {
+            return Err(SceneError(format!(
+                "scene version {} is not supported (this build reads 1 to {SCENE_VERSION})",
+                self.version
+            )));
+        }
+        match &self.mesh {
+            MeshSource::Shape(s) => s.validate().map_err(SceneError)?,
+            MeshSource::File { name } => {
+                if name.is_empty() {
+                    return Err(SceneError("mesh file name is empty".into()));
+                }
+            }
+        }
+        in_range("crease angle", self.normals.crease_deg, 0.0, 180.0)?;
+        self.camera.validate().map_err(SceneError)?;
+        for (i, v) in self.rotation.iter().enumerate() {
+            finite(&format!("rotation[{i}]"), *v)?;
+        }
+        if self.rotation.iter().map(|v| v * v).sum::<f32>() < 1e-12 {
+            return Err(SceneError("rotation quaternion has zero length".into()));
+        }
+        if self.lights.len() > MAX_LIGHTS {
+            return Err(SceneError(format!(
+                "at most {MAX_LIGHTS} lights, not {}",
+                self.lights.len()
+            )));
+        }
+        for (i, l) in self.lights.iter().enumerate() {
+            let n = |f: &str| format!("light {} {f}", i + 1);
+            finite(&n("azimuth"), l.azimuth_deg)?;
+            in_range(&n("elevation"), l.elevation_deg, -90.0, 90.0)?;
+            in_range(&n("distance"), l.distance, 0.0, 1000.0)?;
+            in_range(&n("intensity"), l.intensity, 0.0, 100.0)?;
+            in_range(&n("falloff"), l.falloff, 0.0, 100.0)?;
+            colour(&n("colour"), &l.color)?;
+        }
+        colour("ambient light", &self.ambient_light)?;
+        colour("background", &self.background)?;
+        let m = &self.material;
+        colour("base colour", &m.base_color)?;
+        colour("emissive colour", &m.emissive)?;
+        in_range("ambient", m.ambient, 0.0, 10.0)?;
+        in_range("diffuse", m.diffuse, 0.0, 10.0)?;
+        in_range("specular", m.specular, 0.0, 10.0)?;
+        in_range("shininess", m.shininess, 1.0, 2048.0)?;
+        in_range("emissive strength", m.emissive_strength, 0.0, 100.0)?;
+        for (name, v) in [
+            ("panel width", self.panel.width),
+            ("panel height", self.panel.height),
+        ] {
+            if !(1..=MAX_PANEL_SIDE).contains(&v) {
+                return Err(SceneError(format!(
+                    "{name} must be 1 to {MAX_PANEL_SIDE} pixels, not {v}"
+                )));
+            }
+        }
+        Ok(())
+    }
+
+    /// The mesh rotation, normalised (identity if it cannot be).
+    pub fn rotation_quat(&self) -> Quat {
+        let [x, y, z, w] = self.rotation;
+        normalized(Quat::from_xyzw(x, y, z, w))
+    }
+
+    /// Sets the rotation from a quaternion (stored normalised).
+    pub fn set_rotation(&mut self, q: Quat) {
+        let q = normalized(q);
+        self.rotation = [q.x, q.y, q.z, q.w];
+    }
+}
+
+/// `q / |q|`, or the identity when `q` has no usable length.
+fn normalized(q: Quat) -> Quat {
+    let len = q.length();
+    if len > 0.0 && len.is_finite() {
+        q * (1.0 / len)
+    } else {
+        Quat::IDENTITY
+    }
+}
+
+impl Scene {
+    /// Turns the mesh by `right_deg` about the screen's vertical axis and by `down_deg` about
+    /// its horizontal axis (as a drag to the right and down would), in world space, so the
+    /// turn follows the view however the camera orbits or rolls.
+    pub fn turn(&mut self, right_deg: f32, down_deg: f32) {
+        let frame = self
+            .camera
+            .frame(self.panel.width as f32 / self.panel.height.max(1) as f32);
+        // Rows of the view rotation are the camera's right and up axes in world space.
+        let right = frame.view.row(0).truncate();
+        let up = frame.view.row(1).truncate();
+        let q = axis_angle(up, right_deg) * axis_angle(right, down_deg) * self.rotation_quat();
+        self.set_rotation(q);
+    }
+}
+
+/// Rotation by `deg` degrees about `axis` (unit), through `libm`.
+pub fn axis_angle(axis: glam::Vec3, deg: f32) -> Quat {
+    let half = 0.5 * deg.to_radians();
+    let (s, c) = (libm::sinf(half), libm::cosf(half));
+    Quat::from_xyzw(axis.x * s, axis.y * s, axis.z * s, c)
+}
