@@ -1,0 +1,256 @@
+// twinshade page: controls, input and presentation. All rendering happens in the wasm module;
+// this file only edits the scene, asks for a frame, and copies each panel's pixels from wasm
+// memory into its canvas once per frame.
+import init, { Viewer } from "./pkg/twinshade.js";
+
+const $ = (id) => document.getElementById(id);
+const canvases = [...document.querySelectorAll("canvas[data-panel]")];
+const readouts = [...document.querySelectorAll("[data-readout]")];
+
+// Detail slider per shape: its range and how a slider value becomes shape parameters.
+const SHAPES = {
+  icosphere: { min: 0, max: 7, def: 2, make: (d) => ({ kind: "icosphere", level: d }), of: (s) => s.level, text: (d) => `level ${d}` },
+  uv_sphere: { min: 2, max: 64, def: 8, make: (d) => ({ kind: "uv_sphere", rings: d, segments: 2 * d }), of: (s) => s.rings, text: (d) => `${d} × ${2 * d}` },
+  torus: { min: 3, max: 96, def: 10, make: (d) => ({ kind: "torus", rings: 2 * d, segments: d }), of: (s) => s.segments, text: (d) => `${2 * d} × ${d}` },
+  vase: { min: 2, max: 96, def: 10, make: (d) => ({ kind: "vase", rings: d, segments: 2 * d }), of: (s) => s.rings, text: (d) => `${d} × ${2 * d}` },
+  quad_grid: { min: 1, max: 64, def: 6, make: (d) => ({ kind: "quad_grid", cells: d }), of: (s) => s.cells, text: (d) => `${d} × ${d} quads` },
+  cube: { min: 0, max: 0, def: 0, make: () => ({ kind: "cube" }), of: () => 0, text: () => "fixed" },
+};
+
+const shininessToSlider = (n) => Math.round((100 * Math.log(n)) / Math.log(1024));
+const sliderToShininess = (s) => Math.max(1, Math.round(Math.pow(1024, s / 100)));
+
+let wasm;
+let viewer;
+let fitToLayout = true;
+let pending = false;
+let lastFrameMs = 0;
+
+function showProblem(message) {
+  const p = $("problem");
+  if (message) {
+    p.textContent = message;
+    p.hidden = false;
+  } else {
+    p.textContent = "";
+    p.hidden = true;
+  }
+}
+
+/** Applies `edit` to a copy of the scene; the viewer keeps its scene if the result is refused. */
+function editScene(edit) {
+  const scene = viewer.scene();
+  edit(scene);
+  try {
+    viewer.setScene(scene);
+    showProblem("");
+  } catch (e) {
+    showProblem(`Not applied: ${e.message || e}`);
+  }
+  syncControls();
+  requestRender();
+}
+
+function requestRender() {
+  if (!pending) {
+    pending = true;
+    requestAnimationFrame(frame);
+  }
+}
+
+function frame() {
+  pending = false;
+  const t0 = performance.now();
+  try {
+    viewer.render();
+  } catch (e) {
+    showProblem(`Cannot render: ${e.message || e}`);
+    return;
+  }
+  const w = viewer.width();
+  const h = viewer.height();
+  canvases.forEach((canvas, i) => {
+    if (canvas.width !== w || canvas.height !== h) {
+      canvas.width = w;
+      canvas.height = h;
+    }
+    const bytes = new Uint8ClampedArray(wasm.memory.buffer, viewer.panelPtr(i), viewer.panelLen(i));
+    canvas.getContext("2d").putImageData(new ImageData(bytes, w, h), 0, 0);
+  });
+  lastFrameMs = performance.now() - t0;
+  showStats();
+  document.body.dataset.ready = "1";
+}
+
+const fmt = (n) => n.toLocaleString("en-US");
+
+function showStats() {
+  const [g, p] = viewer.stats();
+  readouts[0].textContent = `${fmt(g.lit_vertices)} lighting evaluations (vertices)`;
+  readouts[1].textContent = `${fmt(p.fragments)} lighting evaluations (pixels)`;
+  const s = viewer.scene();
+  $("status").textContent =
+    `${fmt(g.triangles)} triangles · panels ${s.panel.width}×${s.panel.height} px · ` +
+    `frame ${lastFrameMs.toFixed(1)} ms (both panels, CPU, WebAssembly)`;
+}
+
+function shapeKind(scene) {
+  return scene.mesh.shape ? scene.mesh.shape.kind : null;
+}
+
+function syncControls() {
+  const s = viewer.scene();
+  const kind = shapeKind(s);
+  if (kind) {
+    const spec = SHAPES[kind];
+    $("shape").value = kind;
+    const detail = $("detail");
+    detail.min = spec.min;
+    detail.max = spec.max;
+    detail.disabled = spec.min === spec.max;
+    detail.value = spec.of(s.mesh.shape);
+    $("detail-out").textContent = spec.text(+detail.value);
+  }
+  const m = s.material;
+  $("base").value = m.base_color;
+  $("finish").value = m.finish;
+  $("model").value = s.model;
+  $("shininess").value = shininessToSlider(m.shininess);
+  $("shininess-out").textContent = String(m.shininess);
+  $("specular").value = m.specular;
+  $("specular-out").textContent = m.specular.toFixed(2);
+  const light = s.lights[0];
+  const hasLight = Boolean(light);
+  for (const id of ["light-kind", "light-az", "light-el", "light-color"]) $(id).disabled = !hasLight;
+  if (hasLight) {
+    $("light-kind").value = light.kind;
+    $("light-az").value = light.azimuth_deg;
+    $("light-az-out").textContent = `${Math.round(light.azimuth_deg)}°`;
+    $("light-el").value = light.elevation_deg;
+    $("light-el-out").textContent = `${Math.round(light.elevation_deg)}°`;
+    $("light-color").value = light.color;
+  }
+  $("projection").value = s.camera.projection;
+  $("roll").value = s.camera.roll_deg;
+  $("roll-out").textContent = `${Math.round(s.camera.roll_deg)}°`;
+  $("cull").checked = s.cull_back_faces;
+  $("persp").checked = s.perspective_correct;
+}
+
+function bindControls() {
+  const on = (id, event, edit) => $(id).addEventListener(event, () => editScene(edit));
+  on("shape", "change", (s) => {
+    const spec = SHAPES[$("shape").value];
+    s.mesh = { shape: spec.make(spec.def) };
+  });
+  on("detail", "input", (s) => {
+    const spec = SHAPES[$("shape").value];
+    s.mesh = { shape: spec.make(+$("detail").value) };
+  });
+  on("base", "input", (s) => { s.material.base_color = $("base").value; });
+  on("finish", "change", (s) => { s.material.finish = $("finish").value; });
+  on("model", "change", (s) => { s.model = $("model").value; });
+  on("shininess", "input", (s) => { s.material.shininess = sliderToShininess(+$("shininess").value); });
+  on("specular", "input", (s) => { s.material.specular = +$("specular").value; });
+  on("light-kind", "change", (s) => { s.lights[0].kind = $("light-kind").value; });
+  on("light-az", "input", (s) => { s.lights[0].azimuth_deg = +$("light-az").value; });
+  on("light-el", "input", (s) => { s.lights[0].elevation_deg = +$("light-el").value; });
+  on("light-color", "input", (s) => { s.lights[0].color = $("light-color").value; });
+  on("projection", "change", (s) => { s.camera.projection = $("projection").value; });
+  on("roll", "input", (s) => { s.camera.roll_deg = +$("roll").value; });
+  on("cull", "change", (s) => { s.cull_back_faces = $("cull").checked; });
+  on("persp", "change", (s) => { s.perspective_correct = $("persp").checked; });
+  on("reset", "click", (s) => { s.rotation = [0, 0, 0, 1]; });
+}
+
+/** Dragging a panel turns the mesh; works for mouse, pen and touch. */
+function bindTurning() {
+  const DEG_PER_PX = 0.5;
+  for (const canvas of canvases) {
+    let last = null;
+    canvas.addEventListener("pointerdown", (e) => {
+      last = [e.clientX, e.clientY];
+      canvas.setPointerCapture(e.pointerId);
+      e.preventDefault();
+    });
+    canvas.addEventListener("pointermove", (e) => {
+      if (!last) return;
+      const dx = e.clientX - last[0];
+      const dy = e.clientY - last[1];
+      last = [e.clientX, e.clientY];
+      if (dx || dy) {
+        viewer.turn(dx * DEG_PER_PX, dy * DEG_PER_PX);
+        requestRender();
+      }
+    });
+    const end = () => { last = null; };
+    canvas.addEventListener("pointerup", end);
+    canvas.addEventListener("pointercancel", end);
+    canvas.addEventListener("keydown", (e) => {
+      const step = e.shiftKey ? 15 : 5;
+      const turns = { ArrowLeft: [-step, 0], ArrowRight: [step, 0], ArrowUp: [0, -step], ArrowDown: [0, step] };
+      const t = turns[e.key];
+      if (t) {
+        viewer.turn(t[0], t[1]);
+        requestRender();
+        e.preventDefault();
+      }
+    });
+  }
+}
+
+/** Sizes the panels to the layout, in device pixels so they stay sharp on high-DPI screens. */
+function fitPanels() {
+  if (!fitToLayout) return;
+  const box = $("panels").getBoundingClientRect();
+  const gap = 16;
+  const cssW = Math.max(64, Math.floor((box.width - gap) / 2));
+  const cssH = Math.max(48, Math.round((cssW * 3) / 4));
+  const dpr = window.devicePixelRatio || 1;
+  const w = Math.min(4096, Math.round(cssW * dpr));
+  const h = Math.min(4096, Math.round(cssH * dpr));
+  for (const c of canvases) {
+    c.style.width = `${cssW}px`;
+    c.style.height = `${cssH}px`;
+  }
+  const s = viewer.scene();
+  if (s.panel.width !== w || s.panel.height !== h) {
+    try {
+      viewer.setPanelSize(w, h);
+    } catch (e) {
+      showProblem(`Cannot size the panels: ${e.message || e}`);
+    }
+    requestRender();
+  }
+}
+
+async function start() {
+  wasm = await init();
+  viewer = new Viewer();
+  const q = new URLSearchParams(location.search);
+  // ?size=WxH renders at a fixed panel size (for docs and tests) instead of fitting the layout.
+  const fixed = /^(\d+)x(\d+)$/.exec(q.get("size") || "");
+  if (fixed) {
+    fitToLayout = false;
+    viewer.setPanelSize(+fixed[1], +fixed[2]);
+    for (const c of canvases) {
+      c.style.width = `${+fixed[1] / (window.devicePixelRatio || 1)}px`;
+    }
+  }
+  bindControls();
+  bindTurning();
+  syncControls();
+  fitPanels();
+  new ResizeObserver(fitPanels).observe($("panels"));
+  requestRender();
+  // For tests and the console: read-only access plus turning.
+  window.twinshade = {
+    sceneJson: () => viewer.sceneJson(),
+    stats: () => viewer.stats(),
+  };
+}
+
+start().catch((e) => {
+  showProblem(`twinshade could not start: ${e.message || e}`);
+  console.error(e);
+});
