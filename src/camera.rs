@@ -108,7 +108,7 @@ impl Camera {
                 self.fov_y_deg
             ));
         }
-        if !(self.ortho_height > 0.0) {
+        if self.ortho_height.is_nan() || self.ortho_height <= 0.0 {
             return Err("orthographic height must be positive".into());
         }
         if !(-89.0..=89.0).contains(&self.pitch_deg) {

@@ -47,8 +47,8 @@ pub fn outcode(p: Vec4) -> u8 {
     let d = distances(p);
     let mut code = 0;
     for (i, v) in d.iter().enumerate() {
-        // `!(v >= 0)` also flags NaN as outside.
-        if !(*v >= 0.0) {
+        // NaN counts as outside.
+        if v.is_nan() || *v < 0.0 {
             code |= 1 << i;
         }
     }

@@ -112,7 +112,7 @@ pub fn encode_srgb8(l: f32) -> u8 {
 
 #[inline(always)]
 fn encode_with(th: &Thresholds, l: f32) -> u8 {
-    if !(l > 0.0) {
+    if l.is_nan() || l <= 0.0 {
         return 0;
     }
     if l >= 1.0 {

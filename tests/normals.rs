@@ -15,7 +15,14 @@ fn triangle_cube() -> Mesh {
         let c = |bit: u32| if i & bit != 0 { 1.0 } else { -1.0 };
         m.positions.push(Vec3::new(c(1), c(2), c(4)));
     }
-    for q in [[1, 3, 7, 5], [0, 4, 6, 2], [2, 6, 7, 3], [0, 1, 5, 4], [5, 7, 6, 4], [0, 2, 3, 1]] {
+    for q in [
+        [1, 3, 7, 5],
+        [0, 4, 6, 2],
+        [2, 6, 7, 3],
+        [0, 1, 5, 4],
+        [5, 7, 6, 4],
+        [0, 2, 3, 1],
+    ] {
         m.push_face_positions(&[q[0], q[1], q[2]]);
         m.push_face_positions(&[q[0], q[2], q[3]]);
     }
@@ -24,7 +31,15 @@ fn triangle_cube() -> Mesh {
 
 fn corner_normals(m: &Mesh, w: NormalWeighting) -> Vec<(Vec3, Vec3)> {
     let out = compute_normals(m, w, 180.0);
-    out.corners.iter().map(|c| (out.positions[c.position as usize], out.normals[c.normal as usize])).collect()
+    out.corners
+        .iter()
+        .map(|c| {
+            (
+                out.positions[c.position as usize],
+                out.normals[c.normal as usize],
+            )
+        })
+        .collect()
 }
 
 #[test]
@@ -42,9 +57,15 @@ fn area_weighted_cube_corner_depends_on_the_split() {
     // Same source: area (or uniform) weighting gives (1, 2, 2)/3 up to sign and order at a
     // corner where two of its three faces contribute two triangles: here (1, 1, 1).
     let normals = corner_normals(&triangle_cube(), NormalWeighting::Area);
-    let (_, n) = normals.iter().find(|(p, _)| *p == Vec3::ONE).expect("corner (1,1,1)");
+    let (_, n) = normals
+        .iter()
+        .find(|(p, _)| *p == Vec3::ONE)
+        .expect("corner (1,1,1)");
     let want = Vec3::new(2.0, 2.0, 1.0) / 3.0;
-    assert!((*n - want).length() < 1e-6, "area-weighted corner (1,1,1): {n}, want {want}");
+    assert!(
+        (*n - want).length() < 1e-6,
+        "area-weighted corner (1,1,1): {n}, want {want}"
+    );
 }
 
 /// Worst angle, in degrees, between computed normals and the radial direction on an
@@ -84,7 +105,10 @@ fn crease_angle_splits_hard_edges() {
     for f in m.faces() {
         let n = m.normals[f[0].normal as usize];
         let axis = n.abs().max_element();
-        assert!((axis - 1.0).abs() < 1e-6, "face normal {n} should be axis-aligned");
+        assert!(
+            (axis - 1.0).abs() < 1e-6,
+            "face normal {n} should be axis-aligned"
+        );
         assert!(f.iter().all(|c| m.normals[c.normal as usize] == n));
     }
     // Three distinct normals per corner position, 24 in all.

@@ -21,7 +21,12 @@ struct Canvas {
 
 impl Canvas {
     fn new(w: usize, h: usize) -> Self {
-        Canvas { w, h, color: vec![u32::MAX; w * h], depth: vec![1.0; w * h] }
+        Canvas {
+            w,
+            h,
+            color: vec![u32::MAX; w * h],
+            depth: vec![1.0; w * h],
+        }
     }
     fn draw<const P: bool>(&mut self, v: [(f32, f32, f32, f32, f32); 3]) -> u32 {
         let count = Cell::new(0);
@@ -32,7 +37,12 @@ impl Canvas {
             inv_w: 1.0 / w,
             var: [if P { f / w } else { f }],
         });
-        let mut t = Target { color: &mut self.color, depth: &mut self.depth, width: self.w, height: self.h };
+        let mut t = Target {
+            color: &mut self.color,
+            depth: &mut self.depth,
+            width: self.w,
+            height: self.h,
+        };
         draw_triangle::<1, P, _>(&mut t, [&rv[0], &rv[1], &rv[2]], Cull::None, &Probe(&count));
         count.get()
     }
@@ -68,7 +78,10 @@ fn shared_edges_cover_every_pixel_exactly_once_at_any_roll() {
         let corners: Vec<(f32, f32)> = (0..sides)
             .map(|i| {
                 let a = roll + i as f32 * std::f32::consts::TAU / sides as f32;
-                ((cx + r * a.cos()).floor() + 0.5, (cy + r * a.sin()).floor() + 0.5)
+                (
+                    (cx + r * a.cos()).floor() + 0.5,
+                    (cy + r * a.sin()).floor() + 0.5,
+                )
             })
             .collect();
         let mut c = Canvas::new(w, h);
@@ -77,10 +90,19 @@ fn shared_edges_cover_every_pixel_exactly_once_at_any_roll() {
             let (a, b) = (corners[i], corners[(i + 1) % sides]);
             // Each triangle nearer than the last, so an overlap would pass the depth test.
             let z = 0.9 - i as f32 * 0.01;
-            fragments += c.draw::<false>([(cx, cy, z, 1.0, 0.0), (a.0, a.1, z, 1.0, 0.0), (b.0, b.1, z, 1.0, 0.0)]);
+            fragments += c.draw::<false>([
+                (cx, cy, z, 1.0, 0.0),
+                (a.0, a.1, z, 1.0, 0.0),
+                (b.0, b.1, z, 1.0, 0.0),
+            ]);
         }
         let covered = c.color.iter().filter(|&&p| p != u32::MAX).count() as u32;
-        assert_eq!(fragments, covered, "roll step {k}: {} pixels drawn twice", fragments - covered);
+        assert_eq!(
+            fragments,
+            covered,
+            "roll step {k}: {} pixels drawn twice",
+            fragments - covered
+        );
         // Every centre clearly inside the polygon is covered; none clearly outside is.
         for y in 0..h {
             for x in 0..w {
@@ -113,13 +135,25 @@ fn perspective_correct_golden_value() {
     // screen-affine interpolation gives 1/3 (values derived in shared/REFERENCES.md).
     // The centroid of this triangle is the centre of pixel (10, 10).
     let tri = |(x, y): (f32, f32), w: f32, f: f32| (x, y, 0.0, w, f);
-    let v = [tri((0.5, 0.5), 1.0, 0.0), tri((30.5, 0.5), 2.0, 1.0), tri((0.5, 30.5), 4.0, 0.0)];
+    let v = [
+        tri((0.5, 0.5), 1.0, 0.0),
+        tri((30.5, 0.5), 2.0, 1.0),
+        tri((0.5, 30.5), 4.0, 0.0),
+    ];
     let mut c = Canvas::new(32, 32);
     c.draw::<true>(v);
-    assert!((c.value(10, 10) - 2.0 / 7.0).abs() < 1e-6, "perspective: {}", c.value(10, 10));
+    assert!(
+        (c.value(10, 10) - 2.0 / 7.0).abs() < 1e-6,
+        "perspective: {}",
+        c.value(10, 10)
+    );
     let mut c = Canvas::new(32, 32);
     c.draw::<false>(v);
-    assert!((c.value(10, 10) - 1.0 / 3.0).abs() < 1e-6, "affine: {}", c.value(10, 10));
+    assert!(
+        (c.value(10, 10) - 1.0 / 3.0).abs() < 1e-6,
+        "affine: {}",
+        c.value(10, 10)
+    );
 }
 
 #[test]
@@ -128,7 +162,11 @@ fn edge_then_span_interpolation_equals_barycentric() {
     // on a triangle, interpolating a value along the left and right edges and then across
     // the span gives the barycentric (planar) interpolation. The walk below is written
     // independently of the rasterizer and compared with its affine output at every pixel.
-    let v = [(3.3f32, 2.1f32, 0.2f32), (41.7, 9.6, 0.9), (12.4, 37.2, 0.55)];
+    let v = [
+        (3.3f32, 2.1f32, 0.2f32),
+        (41.7, 9.6, 0.9),
+        (12.4, 37.2, 0.55),
+    ];
     let mut c = Canvas::new(48, 48);
     c.draw::<false>(v.map(|(x, y, f)| (x, y, 0.0, 1.0, f)));
     let mut checked = 0;
@@ -153,7 +191,10 @@ fn edge_then_span_interpolation_equals_barycentric() {
             if x > xl + 0.01 && x < xr - 0.01 && c.color[py * 48 + px] != u32::MAX {
                 let span = fl + (x - xl) / (xr - xl) * (fr - fl);
                 let got = c.value(px, py);
-                assert!((got - span).abs() < 1e-4, "({px}, {py}): raster {got}, edge-span walk {span}");
+                assert!(
+                    (got - span).abs() < 1e-4,
+                    "({px}, {py}): raster {got}, edge-span walk {span}"
+                );
                 checked += 1;
             }
         }

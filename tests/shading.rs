@@ -12,11 +12,16 @@ use twinshade::{Framebuffer, Renderer, Scene, ShadingMode};
 /// A unit sphere seen orthographically along -z, lit by one white directional light along
 /// the view axis, diffuse only, white base, no ambient, no specular.
 fn lambert_scene(level: u32) -> Scene {
-    let mut s = Scene::default();
-    s.mesh = MeshSource::Shape(Shape::Icosphere { level });
+    let mut s = Scene {
+        mesh: MeshSource::Shape(Shape::Icosphere { level }),
+        ..Scene::default()
+    };
     s.camera.projection = Projection::Orthographic;
     s.camera.ortho_height = 2.2;
-    s.panel = PanelSize { width: 220, height: 220 };
+    s.panel = PanelSize {
+        width: 220,
+        height: 220,
+    };
     s.lights = vec![Light {
         kind: LightKind::Directional,
         azimuth_deg: 0.0,
@@ -38,7 +43,9 @@ fn lambert_scene(level: u32) -> Scene {
 
 fn render(scene: &Scene, mode: ShadingMode) -> Framebuffer {
     let mut fb = Framebuffer::new(0, 0);
-    Renderer::new().render(scene, mode, &mut fb).expect("render");
+    Renderer::new()
+        .render(scene, mode, &mut fb)
+        .expect("render");
     fb
 }
 
@@ -78,15 +85,26 @@ fn lambert_sphere_converges_per_pixel_and_per_vertex_errs_more() {
         let scene = lambert_scene(level);
         let (pm, px) = lambert_error(&scene, &render(&scene, ShadingMode::Phong));
         let (gm, gx) = lambert_error(&scene, &render(&scene, ShadingMode::Gouraud));
-        report += &format!("L{level}: phong mean {pm:.5} max {px:.5}; gouraud mean {gm:.5} max {gx:.5}\n");
-        assert!(pm < last_phong, "per-pixel error must fall with refinement:\n{report}");
-        assert!(gm > pm, "per-vertex must err more than per-pixel at L{level}:\n{report}");
+        report += &format!(
+            "L{level}: phong mean {pm:.5} max {px:.5}; gouraud mean {gm:.5} max {gx:.5}\n"
+        );
+        assert!(
+            pm < last_phong,
+            "per-pixel error must fall with refinement:\n{report}"
+        );
+        assert!(
+            gm > pm,
+            "per-vertex must err more than per-pixel at L{level}:\n{report}"
+        );
         last_phong = pm;
         if level == 5 {
             // Bound: at L5 (20,480 triangles) per-pixel shading is off by at most one 8-bit
             // code and by less than 0.05 code on average (measured 0.017; each level cuts
             // the mean about fourfold, as second-order convergence would).
-            assert!(pm < 0.05 && px <= 1.0, "L5 per-pixel error too large:\n{report}");
+            assert!(
+                pm < 0.05 && px <= 1.0,
+                "L5 per-pixel error too large:\n{report}"
+            );
         }
     }
     eprintln!("{report}");
@@ -104,7 +122,11 @@ fn highlight_inside_a_coarse_triangle_shows_only_per_pixel() {
     s.material.base_color = "#3060a0".into();
     let mesh = Shape::Icosphere { level: 1 }.build();
     let f = mesh.face(7);
-    let centroid: Vec3 = f.iter().map(|c| mesh.positions[c.position as usize]).sum::<Vec3>() / 3.0;
+    let centroid: Vec3 = f
+        .iter()
+        .map(|c| mesh.positions[c.position as usize])
+        .sum::<Vec3>()
+        / 3.0;
     s.set_rotation(Quat::from_rotation_arc(centroid.normalize(), Vec3::Z));
     let luma = |fb: &Framebuffer, x: usize, y: usize| {
         let p = fb.rgba(x, y);
@@ -113,15 +135,25 @@ fn highlight_inside_a_coarse_triangle_shows_only_per_pixel() {
     let phong = render(&s, ShadingMode::Phong);
     let gouraud = render(&s, ShadingMode::Gouraud);
     let (w, h) = (phong.width(), phong.height());
-    let peak = (0..w * h).max_by(|&a, &b| luma(&phong, a % w, a / w).total_cmp(&luma(&phong, b % w, b / w))).unwrap_or(0);
+    let peak = (0..w * h)
+        .max_by(|&a, &b| luma(&phong, a % w, a / w).total_cmp(&luma(&phong, b % w, b / w)))
+        .unwrap_or(0);
     let (px, py) = (peak % w, peak / w);
     // The peak is at the view centre, where the face's centroid projects.
-    assert!(px.abs_diff(w / 2) <= 3 && py.abs_diff(h / 2) <= 3, "Phong peak at ({px}, {py})");
+    assert!(
+        px.abs_diff(w / 2) <= 3 && py.abs_diff(h / 2) <= 3,
+        "Phong peak at ({px}, {py})"
+    );
     let (lp, lg) = (luma(&phong, px, py), luma(&gouraud, px, py));
-    let gouraud_max = (0..w * h).map(|i| luma(&gouraud, i % w, i / w)).fold(0.0, f64::max);
+    let gouraud_max = (0..w * h)
+        .map(|i| luma(&gouraud, i % w, i / w))
+        .fold(0.0, f64::max);
     eprintln!("peak luma: phong {lp:.1}, gouraud there {lg:.1}, gouraud anywhere {gouraud_max:.1}");
     assert!(lp > 240.0, "Phong shows a near-white specular peak: {lp}");
-    assert!(lg < 0.5 * lp && gouraud_max < 0.5 * lp, "Gouraud must miss it: {lg} / {gouraud_max}");
+    assert!(
+        lg < 0.5 * lp && gouraud_max < 0.5 * lp,
+        "Gouraud must miss it: {lg} / {gouraud_max}"
+    );
 }
 
 #[test]
@@ -136,10 +168,17 @@ fn geometry_crossing_the_eye_plane_is_clipped() {
     ];
     mesh.push_face_positions(&[0, 1, 2]);
     mesh.validate().expect("valid");
-    let mut s = Scene::default();
-    s.mesh = MeshSource::File { name: "floor".into() };
+    let mut s = Scene {
+        mesh: MeshSource::File {
+            name: "floor".into(),
+        },
+        ..Scene::default()
+    };
     s.cull_back_faces = false;
-    s.panel = PanelSize { width: 160, height: 120 };
+    s.panel = PanelSize {
+        width: 160,
+        height: 120,
+    };
     let mut r = Renderer::new();
     r.set_file_mesh(mesh);
     for mode in [ShadingMode::Gouraud, ShadingMode::Phong, ShadingMode::Flat] {
@@ -150,9 +189,19 @@ fn geometry_crossing_the_eye_plane_is_clipped() {
             .map(|i| (i % 160, i / 160))
             .filter(|&(x, y)| fb.rgba(x, y) != bg)
             .collect();
-        assert!(drawn.len() > 1000, "{mode:?}: the floor is visible ({} px)", drawn.len());
-        assert!(drawn.iter().all(|&(_, y)| y >= 60), "{mode:?}: floor drawn above the horizon");
-        assert!(drawn.len() < 160 * 60, "{mode:?}: floor covers the whole lower half");
+        assert!(
+            drawn.len() > 1000,
+            "{mode:?}: the floor is visible ({} px)",
+            drawn.len()
+        );
+        assert!(
+            drawn.iter().all(|&(_, y)| y >= 60),
+            "{mode:?}: floor drawn above the horizon"
+        );
+        assert!(
+            drawn.len() < 160 * 60,
+            "{mode:?}: floor covers the whole lower half"
+        );
     }
 }
 
@@ -162,7 +211,10 @@ fn bad_scenes_are_refused_with_a_message() {
         (r#"{"panel": {"width": 0, "height": 10}}"#, "panel width"),
         (r#"{"rotation": [0, 0, 0, 0]}"#, "zero length"),
         (r#"{"material": {"base_color": "teal"}}"#, "#rrggbb"),
-        (r#"{"mesh": {"shape": {"kind": "icosphere", "level": 9}}}"#, "level"),
+        (
+            r#"{"mesh": {"shape": {"kind": "icosphere", "level": 9}}}"#,
+            "level",
+        ),
         (r#"{"version": 99}"#, "version"),
         (r#"{"colour": 1}"#, "unknown field"),
         (r#"{"camera": {"fov_y_deg": 1e40}}"#, "finite"),
@@ -171,7 +223,10 @@ fn bad_scenes_are_refused_with_a_message() {
     ];
     for (json, needle) in cases {
         let err = Scene::from_json(json).expect_err(json).to_string();
-        assert!(err.contains(needle), "{json}: message '{err}' should mention '{needle}'");
+        assert!(
+            err.contains(needle),
+            "{json}: message '{err}' should mention '{needle}'"
+        );
     }
     assert_eq!(Scene::from_json("{}").expect("defaults"), Scene::default());
 }

@@ -1,0 +1,130 @@
+//! The command line as a user runs it.
+
+use std::path::PathBuf;
+use std::process::Command;
+use twinshade::cli::read_png;
+use twinshade::{Framebuffer, Renderer, Scene, ShadingMode};
+
+fn twinshade(args: &[&str]) -> std::process::Output {
+    Command::new(env!("CARGO_BIN_EXE_twinshade"))
+        .args(args)
+        .output()
+        .expect("run twinshade")
+}
+
+fn temp_dir(name: &str) -> PathBuf {
+    let d = std::env::temp_dir().join(format!("twinshade-cli-{name}-{}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&d);
+    d
+}
+
+#[test]
+fn render_writes_panels_identical_to_the_library_and_a_sheet() {
+    let dir = temp_dir("render");
+    let out = twinshade(&[
+        "render",
+        "--size",
+        "200x150",
+        "--out-dir",
+        dir.to_str().expect("utf-8"),
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let mut scene = Scene::default();
+    scene.panel.width = 200;
+    scene.panel.height = 150;
+    let mut r = Renderer::new();
+    for (file, mode) in [
+        ("gouraud.png", ShadingMode::Gouraud),
+        ("phong.png", ShadingMode::Phong),
+    ] {
+        let (w, h, bytes) = read_png(&dir.join(file)).expect("readable PNG");
+        assert_eq!((w, h), (200, 150), "{file} size");
+        let mut fb = Framebuffer::new(0, 0);
+        r.render(&scene, mode, &mut fb).expect("render");
+        assert!(
+            bytes == fb.bytes(),
+            "{file} differs from the library's pixels"
+        );
+    }
+    let (w, h, _) = read_png(&dir.join("sheet.png")).expect("sheet");
+    assert!(w > 400 && h > 150, "sheet is {w}x{h}");
+    let _ = std::fs::remove_dir_all(&dir);
+}
+
+#[test]
+fn scene_default_prints_the_shared_defaults() {
+    let out = twinshade(&["scene", "--default"]);
+    assert!(out.status.success());
+    let text = String::from_utf8(out.stdout).expect("utf-8");
+    assert_eq!(
+        Scene::from_json(&text).expect("valid JSON"),
+        Scene::default()
+    );
+}
+
+#[test]
+fn bad_input_gives_a_message_and_a_failing_exit_code() {
+    let dir = temp_dir("bad");
+    std::fs::create_dir_all(&dir).expect("temp dir");
+    let broken = dir.join("broken.json");
+    std::fs::write(&broken, "{\"material\": {\"shininess\": -3}}").expect("write");
+    let out_dir = dir.join("out");
+    let cases: Vec<(Vec<String>, &str)> = vec![
+        (
+            vec![
+                "render".into(),
+                "--scene".into(),
+                broken.display().to_string(),
+                "--out-dir".into(),
+                out_dir.display().to_string(),
+            ],
+            "shininess",
+        ),
+        (
+            vec![
+                "render".into(),
+                "--scene".into(),
+                dir.join("missing.json").display().to_string(),
+                "--out-dir".into(),
+                out_dir.display().to_string(),
+            ],
+            "cannot read scene",
+        ),
+        (
+            vec![
+                "render".into(),
+                "--size".into(),
+                "0x10".into(),
+                "--out-dir".into(),
+                out_dir.display().to_string(),
+            ],
+            "panel width",
+        ),
+        (
+            vec![
+                "render".into(),
+                "--size".into(),
+                "big".into(),
+                "--out-dir".into(),
+                out_dir.display().to_string(),
+            ],
+            "640x480",
+        ),
+    ];
+    for (args, needle) in cases {
+        let args: Vec<&str> = args.iter().map(String::as_str).collect();
+        let out = twinshade(&args);
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert!(!out.status.success(), "{args:?} should fail");
+        assert!(
+            err.contains(needle),
+            "{args:?}: stderr '{err}' should mention '{needle}'"
+        );
+        assert!(!err.contains("panicked"), "{args:?} panicked: {err}");
+    }
+    let _ = std::fs::remove_dir_all(&dir);
+}

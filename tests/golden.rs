@@ -1,0 +1,87 @@
+//! Golden images: exact bytes of a few scenes, so any change to the pixels is deliberate.
+//! Regenerate with `TWINSHADE_BLESS=1 cargo test --test golden` and review the PNGs.
+
+use std::path::PathBuf;
+use twinshade::camera::Projection;
+use twinshade::cli::{read_png, write_png};
+use twinshade::lighting::{Finish, LightKind, ReflectionModel};
+use twinshade::scene::{MeshSource, PanelSize};
+use twinshade::shapes::Shape;
+use twinshade::{Framebuffer, Renderer, Scene, ShadingMode};
+
+fn scenes() -> Vec<(&'static str, Scene)> {
+    let small = PanelSize {
+        width: 160,
+        height: 120,
+    };
+    let default = Scene {
+        panel: small,
+        ..Scene::default()
+    };
+    let mut torus = default.clone();
+    torus.mesh = MeshSource::Shape(Shape::Torus {
+        rings: 16,
+        segments: 8,
+    });
+    torus.camera.projection = Projection::Orthographic;
+    torus.camera.pitch_deg = 35.0;
+    torus.model = ReflectionModel::Phong;
+    torus.material.finish = Finish::Metal;
+    torus.material.base_color = "#c08a3e".into();
+    let mut cube = default.clone();
+    cube.mesh = MeshSource::Shape(Shape::Cube);
+    cube.camera.roll_deg = 30.0;
+    cube.camera.yaw_deg = 40.0;
+    cube.camera.pitch_deg = 25.0;
+    cube.cull_back_faces = false;
+    cube.lights[0].kind = LightKind::Point;
+    let mut vase = default.clone();
+    vase.mesh = MeshSource::Shape(Shape::Vase {
+        rings: 12,
+        segments: 16,
+    });
+    vase.perspective_correct = false;
+    vase.camera.distance = 2.6;
+    vec![
+        ("default", default),
+        ("torus-ortho-metal", torus),
+        ("cube-roll-point", cube),
+        ("vase-affine", vase),
+    ]
+}
+
+#[test]
+fn pixels_match_the_golden_images() {
+    let dir = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("tests/images/pipeline");
+    let bless = std::env::var("TWINSHADE_BLESS").is_ok_and(|v| v == "1");
+    let mut r = Renderer::new();
+    let mut failures = Vec::new();
+    for (name, scene) in scenes() {
+        for mode in [
+            ShadingMode::Flat,
+            ShadingMode::Gouraud,
+            ShadingMode::Phong,
+            ShadingMode::Exact,
+        ] {
+            let mut fb = Framebuffer::new(0, 0);
+            r.render(&scene, mode, &mut fb).expect("render");
+            let path = dir.join(format!("{name}-{}.png", format!("{mode:?}").to_lowercase()));
+            if bless {
+                std::fs::create_dir_all(&dir).expect("image folder");
+                write_png(&path, fb.width(), fb.height(), fb.bytes()).expect("write golden");
+                continue;
+            }
+            match read_png(&path) {
+                Ok((w, h, bytes)) if (w, h) == (fb.width(), fb.height()) && bytes == fb.bytes() => {
+                }
+                Ok(_) => failures.push(format!("{} differs", path.display())),
+                Err(e) => failures.push(format!("{e} (bless with TWINSHADE_BLESS=1)")),
+            }
+        }
+    }
+    assert!(
+        failures.is_empty(),
+        "golden images:\n{}",
+        failures.join("\n")
+    );
+}
