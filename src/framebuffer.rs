@@ -64,6 +64,16 @@ impl Framebuffer {
         bytemuck::cast_slice(&self.color)
     }
 
+    /// The colour as mutable RGBA bytes (for images computed rather than rasterized).
+    pub fn bytes_mut(&mut self) -> &mut [u8] {
+        bytemuck::cast_slice_mut(&mut self.color)
+    }
+
+    /// True where something was drawn (depth below the cleared far value).
+    pub fn covered(&self, i: usize) -> bool {
+        self.depth[i] < 1.0
+    }
+
     /// The RGBA bytes of pixel (x, y).
     ///
     /// # Panics

@@ -14,6 +14,7 @@ pub mod clip;
 pub mod color;
 pub mod framebuffer;
 pub mod lighting;
+pub mod measure;
 pub mod mesh;
 pub mod normals;
 pub mod raster;
@@ -22,6 +23,7 @@ pub mod scene;
 pub mod shapes;
 pub mod sheet;
 pub mod vertex_buffer;
+pub mod workbench;
 
 #[cfg(not(target_arch = "wasm32"))]
 pub mod cli;
@@ -32,3 +34,4 @@ pub use framebuffer::Framebuffer;
 pub use mesh::Mesh;
 pub use render::{PanelStats, Renderer, ShadingMode};
 pub use scene::{Scene, SceneError};
+pub use workbench::{FrameReport, Panel, Workbench};

@@ -30,7 +30,7 @@ use glam::{Mat3, Quat, Vec3, Vec4};
 use serde::{Deserialize, Serialize};
 
 /// Where lighting is computed.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Hash)]
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Hash, Default)]
 #[serde(rename_all = "lowercase")]
 pub enum ShadingMode {
     /// One colour per face.
@@ -38,6 +38,7 @@ pub enum ShadingMode {
     /// Per vertex, colours interpolated.
     Gouraud,
     /// Per pixel, normals interpolated.
+    #[default]
     Phong,
     /// Per pixel with the analytic surface's true normal.
     Exact,

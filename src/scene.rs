@@ -8,7 +8,9 @@
 use crate::camera::Camera;
 use crate::color::parse_hex;
 use crate::lighting::{Light, LightKind, Material, ReflectionModel, MAX_LIGHTS};
+use crate::measure::DifferenceSettings;
 use crate::normals::NormalWeighting;
+use crate::render::ShadingMode;
 use crate::shapes::Shape;
 use crate::vertex_buffer::Triangulation;
 use glam::Quat;
@@ -119,6 +121,8 @@ pub struct Scene {
     pub panel: PanelSize,
     /// Background colour, sRGB `#rrggbb`.
     pub background: String,
+    /// What the difference view compares and how it is scaled.
+    pub difference: DifferenceSettings,
 }
 
 impl Default for Scene {
@@ -158,6 +162,7 @@ impl Default for Scene {
             perspective_correct: true,
             panel: PanelSize::default(),
             background: "#1b1d22".into(),
+            difference: DifferenceSettings::default(),
         }
     }
 }
@@ -269,6 +274,15 @@ impl Scene {
         in_range("specular", m.specular, 0.0, 10.0)?;
         in_range("shininess", m.shininess, 1.0, 2048.0)?;
         in_range("emissive strength", m.emissive_strength, 0.0, 100.0)?;
+        let d = &self.difference;
+        in_range("difference threshold", d.threshold, 0.01, 100.0)?;
+        in_range("difference scale", d.scale_max, 0.1, 200.0)?;
+        if d.pair[0] == d.pair[1] || d.pair.contains(&ShadingMode::Flat) {
+            return Err(SceneError(
+                "the difference view compares two different shadings among gouraud, phong and exact"
+                    .into(),
+            ));
+        }
         for (name, v) in [
             ("panel width", self.panel.width),
             ("panel height", self.panel.height),

@@ -6,21 +6,29 @@
 //! pixel or per triangle crosses the boundary. A scene the page sends is validated whole; a
 //! bad one raises a JavaScript `Error` and leaves the previous scene in place.
 
-use crate::render::{PanelStats, Renderer, ShadingMode};
+use crate::measure::Comparer;
 use crate::scene::Scene;
-use crate::Framebuffer;
+use crate::workbench::{Panel, Workbench};
 use wasm_bindgen::prelude::*;
 
 fn js_error(msg: impl std::fmt::Display) -> JsValue {
     js_sys::Error::new(&msg.to_string()).into()
 }
 
-/// The page's renderer: scene, panels and their last statistics.
+/// The panels in the order `panel_ptr` numbers them.
+const PANELS: [Panel; 4] = [
+    Panel::Gouraud,
+    Panel::Phong,
+    Panel::Difference,
+    Panel::Exact,
+];
+
+/// The page's renderer: the scene and the workbench that renders and compares its panels.
 #[wasm_bindgen]
 pub struct Viewer {
     scene: Scene,
-    renderer: Renderer,
-    panels: [(ShadingMode, Framebuffer, PanelStats); 2],
+    bench: Workbench,
+    legend: Comparer,
 }
 
 impl Default for Viewer {
@@ -38,19 +46,8 @@ impl Viewer {
         console_error_panic_hook::set_once();
         Viewer {
             scene: Scene::default(),
-            renderer: Renderer::new(),
-            panels: [
-                (
-                    ShadingMode::Gouraud,
-                    Framebuffer::new(0, 0),
-                    PanelStats::default(),
-                ),
-                (
-                    ShadingMode::Phong,
-                    Framebuffer::new(0, 0),
-                    PanelStats::default(),
-                ),
-            ],
+            bench: Workbench::new(),
+            legend: Comparer::new(),
         }
     }
 
@@ -108,29 +105,50 @@ impl Viewer {
         }
     }
 
-    /// Renders both panels.
+    /// Renders every panel and compares the selected pair.
     pub fn render(&mut self) -> Result<(), JsValue> {
-        for (mode, fb, stats) in &mut self.panels {
-            *stats = self
-                .renderer
-                .render(&self.scene, *mode, fb)
-                .map_err(js_error)?;
-        }
+        self.bench.render(&self.scene).map_err(js_error)?;
         Ok(())
     }
 
-    /// Address in wasm memory of panel `i`'s RGBA bytes (0 = Gouraud, 1 = Phong).
+    /// Address in wasm memory of a panel's RGBA bytes: 0 Gouraud, 1 Phong, 2 difference,
+    /// 3 exact reference (drawn only when the difference view compares against it).
     #[wasm_bindgen(js_name = panelPtr)]
     pub fn panel_ptr(&self, i: usize) -> *const u8 {
-        self.panels
-            .get(i)
-            .map_or(std::ptr::null(), |p| p.1.bytes().as_ptr())
+        PANELS.get(i).map_or(std::ptr::null(), |p| {
+            self.bench.framebuffer(*p).bytes().as_ptr()
+        })
     }
 
-    /// Length in bytes of panel `i`'s pixels.
+    /// Length in bytes of a panel's pixels (0 for a panel not drawn).
     #[wasm_bindgen(js_name = panelLen)]
     pub fn panel_len(&self, i: usize) -> usize {
-        self.panels.get(i).map_or(0, |p| p.1.bytes().len())
+        PANELS
+            .get(i)
+            .map_or(0, |p| self.bench.framebuffer(*p).bytes().len())
+    }
+
+    /// The colours of pixel (x, y) in the compared pair, their CIELAB and dE00/dE*ab, or
+    /// `null` outside the panel.
+    pub fn probe(&self, x: u32, y: u32) -> Result<JsValue, JsValue> {
+        let ser = serde_wasm_bindgen::Serializer::json_compatible();
+        let found = self
+            .bench
+            .probe(self.scene.difference.pair, x as usize, y as usize);
+        serde::Serialize::serialize(&found, &ser).map_err(js_error)
+    }
+
+    /// The difference colour scale as `width` RGBA pixels from 0 to the scale's maximum.
+    pub fn legend(&mut self, width: u32) -> Vec<u8> {
+        let max = self.scene.difference.scale_max;
+        let w = width.max(2);
+        (0..w)
+            .flat_map(|i| {
+                let de = max * i as f32 / (w - 1) as f32;
+                let c = self.legend.map_color(de, max);
+                [c[0], c[1], c[2], 255]
+            })
+            .collect()
     }
 
     /// Panel width in pixels.
@@ -143,10 +161,9 @@ impl Viewer {
         self.scene.panel.height
     }
 
-    /// Statistics of the last render: `[{lit_vertices, fragments, triangles}, ...]`.
-    pub fn stats(&self) -> Result<JsValue, JsValue> {
+    /// The last frame's report: metrics of the compared pair and the lighting cost.
+    pub fn report(&self) -> Result<JsValue, JsValue> {
         let ser = serde_wasm_bindgen::Serializer::json_compatible();
-        let all: Vec<PanelStats> = self.panels.iter().map(|p| p.2).collect();
-        serde::Serialize::serialize(&all, &ser).map_err(js_error)
+        serde::Serialize::serialize(self.bench.report(), &ser).map_err(js_error)
     }
 }

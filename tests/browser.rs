@@ -14,7 +14,7 @@ use std::path::PathBuf;
 use std::process::{Child, Command, Stdio};
 use std::sync::mpsc;
 use std::time::{Duration, Instant};
-use twinshade::{Framebuffer, Renderer, Scene, ShadingMode};
+use twinshade::{Panel, Scene, Workbench};
 
 const PANEL: (u32, u32) = (320, 240);
 
@@ -151,35 +151,29 @@ async fn wait_changed(c: &Client, panel: &str, before: &[u8], what: &str) -> Vec
     }
 }
 
-/// The page's scene rendered natively: (gouraud, phong) RGBA bytes.
-async fn native_render(c: &Client) -> (Scene, Vec<u8>, Vec<u8>) {
+/// The page's scene rendered natively by the same workbench the page uses.
+async fn native_render(c: &Client) -> (Scene, Workbench) {
     let json = eval(c, "return window.twinshade.sceneJson()").await;
     let scene = Scene::from_json(json.as_str().expect("scene JSON")).expect("page scene is valid");
-    let mut r = Renderer::new();
-    let mut out = Vec::new();
-    for mode in [ShadingMode::Gouraud, ShadingMode::Phong] {
-        let mut fb = Framebuffer::new(0, 0);
-        r.render(&scene, mode, &mut fb).expect("native render");
-        out.push(fb.bytes().to_vec());
-    }
-    let phong = out.pop().unwrap_or_default();
-    let gouraud = out.pop().unwrap_or_default();
-    (scene, gouraud, phong)
+    let mut bench = Workbench::new();
+    bench.render(&scene).expect("native render");
+    (scene, bench)
 }
 
 async fn assert_same_as_native(c: &Client, when: &str) {
-    let (scene, g_native, p_native) = native_render(c).await;
-    let (w, h, g_page) = canvas(c, "gouraud").await;
-    let (_, _, p_page) = canvas(c, "phong").await;
-    assert_eq!(
-        (w, h),
-        (scene.panel.width, scene.panel.height),
-        "{when}: canvas size"
-    );
-    for (name, page, native) in [
-        ("gouraud", &g_page, &g_native),
-        ("phong", &p_page, &p_native),
+    let (scene, bench) = native_render(c).await;
+    for (name, panel) in [
+        ("gouraud", Panel::Gouraud),
+        ("phong", Panel::Phong),
+        ("difference", Panel::Difference),
     ] {
+        let (w, h, page) = canvas(c, name).await;
+        assert_eq!(
+            (w, h),
+            (scene.panel.width, scene.panel.height),
+            "{when}: {name} canvas size"
+        );
+        let native = bench.framebuffer(panel).bytes();
         let differing = page
             .chunks_exact(4)
             .zip(native.chunks_exact(4))
@@ -255,8 +249,68 @@ async fn page_end_to_end() {
         at(&phong)
     );
 
-    // The browser's pixels are the native renderer's pixels (bit-identical).
+    // The browser's pixels are the native renderer's pixels (bit-identical), the difference
+    // panel included.
     assert_same_as_native(&c, "first frame").await;
+
+    // The metrics appear, with the native values.
+    let (_, bench) = native_render(&c).await;
+    let p95 = eval(
+        &c,
+        "return document.querySelector('[data-metric=de00]').dataset.p95",
+    )
+    .await;
+    let p95: f64 = p95.as_str().expect("p95 shown").parse().expect("a number");
+    assert_eq!(
+        p95,
+        bench.report().metrics.de00.p95,
+        "p95 dE00 on the page vs native"
+    );
+    let text = eval(&c, "return document.getElementById('metrics').textContent").await;
+    assert!(
+        text.as_str().is_some_and(|t| t.contains("dE00")),
+        "metrics list: {text}"
+    );
+
+    // A click (no drag) probes a pixel; its dE00 is the native one for that pixel.
+    let phong_el = c
+        .find(Locator::Css("canvas[data-panel=\"phong\"]"))
+        .await
+        .expect("phong canvas");
+    let click = MouseActions::new("mouse".into())
+        .then(PointerAction::MoveToElement {
+            element: phong_el,
+            duration: None,
+            x: 25.0,
+            y: -20.0,
+        })
+        .then(PointerAction::Down {
+            button: MOUSE_BUTTON_LEFT,
+        })
+        .then(PointerAction::Up {
+            button: MOUSE_BUTTON_LEFT,
+        });
+    c.perform_actions(click).await.expect("click");
+    let probe = eval(
+        &c,
+        "const d = document.getElementById('probe').dataset; return [d.x, d.y, d.de00]",
+    )
+    .await;
+    let num = |i: usize| {
+        probe[i]
+            .as_str()
+            .unwrap_or_else(|| panic!("probe shows nothing: {probe}"))
+            .to_string()
+    };
+    let (x, y): (usize, usize) = (num(0).parse().expect("x"), num(1).parse().expect("y"));
+    let de00: f64 = num(2).parse().expect("dE00");
+    let native = bench
+        .probe(bench.report().pair, x, y)
+        .expect("probe inside the panel");
+    assert_eq!(
+        de00, native.de00,
+        "probe at ({x}, {y}): page vs native dE00"
+    );
 
     // A drag turns the mesh.
     let canvas_el = c

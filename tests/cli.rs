@@ -128,3 +128,86 @@ fn bad_input_gives_a_message_and_a_failing_exit_code() {
     }
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn render_metrics_and_compare_agree() {
+    let dir = temp_dir("metrics");
+    let d = dir.to_str().expect("utf-8").to_string();
+    let metrics = format!("{d}/m.json");
+    let out = twinshade(&[
+        "render",
+        "--size",
+        "160x120",
+        "--out-dir",
+        &d,
+        "--metrics",
+        &metrics,
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let m: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(&metrics).expect("metrics file"))
+            .expect("JSON");
+    let (w, h, _) = read_png(&dir.join("difference.png")).expect("difference.png");
+    assert_eq!((w, h), (160, 120));
+    let p95 = m["metrics"]["de00"]["p95"].as_f64().expect("p95");
+    assert!(p95 > 1.0, "default scene: Gouraud vs Phong p95 {p95}");
+    assert_eq!(
+        m["lighting"]["gouraud_vertices"], 162,
+        "icosphere L2 has 162 vertices"
+    );
+
+    // `compare` of the two PNGs gives the same dE00 distribution over the covered pixels
+    // plus zeros for the background pixels, which compare equal.
+    let cmp = format!("{d}/c.json");
+    let diff = format!("{d}/diff.png");
+    let out = twinshade(&[
+        "compare",
+        &format!("{d}/gouraud.png"),
+        &format!("{d}/phong.png"),
+        "--out",
+        &diff,
+        "--metrics",
+        &cmp,
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let c: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(&cmp).expect("compare metrics"))
+            .expect("JSON");
+    assert_eq!(c["metrics"]["covered_pixels"], 160 * 120);
+    assert_eq!(c["metrics"]["de00"]["max"], m["metrics"]["de00"]["max"]);
+    let (dw, dh, _) = read_png(std::path::Path::new(&diff)).expect("diff image");
+    assert_eq!((dw, dh), (160, 120));
+
+    // Mismatched sizes and non-PNG input are explained, not fatal.
+    let small = temp_dir("metrics-small");
+    let s = small.to_str().expect("utf-8").to_string();
+    assert!(twinshade(&["render", "--size", "80x60", "--out-dir", &s])
+        .status
+        .success());
+    let out = twinshade(&[
+        "compare",
+        &format!("{d}/gouraud.png"),
+        &format!("{s}/phong.png"),
+    ]);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        !out.status.success() && err.contains("differ in size"),
+        "{err}"
+    );
+    let out = twinshade(&["compare", &metrics, &format!("{d}/phong.png")]);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        !out.status.success() && err.contains("not a readable PNG"),
+        "{err}"
+    );
+    let _ = std::fs::remove_dir_all(&dir);
+    let _ = std::fs::remove_dir_all(&small);
+}

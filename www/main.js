@@ -5,6 +5,9 @@ import init, { Viewer } from "./pkg/twinshade.js";
 
 const $ = (id) => document.getElementById(id);
 const canvases = [...document.querySelectorAll("canvas[data-panel]")];
+// Index of each panel in the viewer (see Viewer.panelPtr).
+const PANEL_INDEX = { gouraud: 0, phong: 1, difference: 2 };
+const MODE_NAME = { gouraud: "Gouraud", phong: "Phong", exact: "exact surface" };
 const readouts = [...document.querySelectorAll("[data-readout]")];
 
 // Detail slider per shape: its range and how a slider value becomes shape parameters.
@@ -69,7 +72,8 @@ function frame() {
   }
   const w = viewer.width();
   const h = viewer.height();
-  canvases.forEach((canvas, i) => {
+  canvases.forEach((canvas) => {
+    const i = PANEL_INDEX[canvas.dataset.panel];
     if (canvas.width !== w || canvas.height !== h) {
       canvas.width = w;
       canvas.height = h;
@@ -79,19 +83,88 @@ function frame() {
   });
   lastFrameMs = performance.now() - t0;
   showStats();
+  showMetrics();
+  drawLegend();
   document.body.dataset.ready = "1";
 }
 
 const fmt = (n) => n.toLocaleString("en-US");
 
 function showStats() {
-  const [g, p] = viewer.stats();
-  readouts[0].textContent = `${fmt(g.lit_vertices)} lighting evaluations (vertices)`;
-  readouts[1].textContent = `${fmt(p.fragments)} lighting evaluations (pixels)`;
-  const s = viewer.scene();
+  const r = viewer.report();
+  readouts[0].textContent = `${fmt(r.lighting.gouraud_vertices)} lighting evaluations (vertices)`;
+  readouts[1].textContent = `${fmt(r.lighting.phong_pixels)} lighting evaluations (pixels)`;
   $("status").textContent =
-    `${fmt(g.triangles)} triangles · panels ${s.panel.width}×${s.panel.height} px · ` +
-    `frame ${lastFrameMs.toFixed(1)} ms (both panels, CPU, WebAssembly)`;
+    `${fmt(r.triangles)} triangles · panels ${r.width}×${r.height} px · ` +
+    `frame ${lastFrameMs.toFixed(1)} ms (all panels and the comparison, CPU, WebAssembly)`;
+}
+
+/** Adds a term and its value to a description list; text only, never HTML. */
+function term(dl, name, value, key) {
+  const dt = document.createElement("dt");
+  dt.textContent = name;
+  const dd = document.createElement("dd");
+  dd.textContent = value;
+  if (key) dd.dataset.metric = key;
+  dl.append(dt, dd);
+}
+
+function showMetrics() {
+  const r = viewer.report();
+  const m = r.metrics;
+  const [a, b] = r.pair.map((p) => MODE_NAME[p]);
+  $("pair-label").textContent = `${a} vs ${b}`;
+  const dl = $("metrics");
+  dl.replaceChildren();
+  const f = (x) => x.toFixed(2);
+  term(dl, "dE00 mean / p95 / max", `${f(m.de00.mean)} / ${f(m.de00.p95)} / ${f(m.de00.max)}`, "de00");
+  dl.lastChild.dataset.p95 = String(m.de00.p95);
+  term(dl, "dE*ab mean / p95 / max", `${f(m.de76.mean)} / ${f(m.de76.p95)} / ${f(m.de76.max)}`, "de76");
+  term(dl, `Pixels above ${m.threshold_de00} dE00`, `${(100 * m.share_above_threshold).toFixed(1)} % of ${fmt(m.covered_pixels)}`, "share");
+  term(dl, "Silhouette mismatch", `${fmt(m.silhouette_mismatch_pixels)} pixels`, "silhouette");
+  term(dl, "Peak luminance Y", `${a} ${m.peak_luminance[0].toFixed(3)} · ${b} ${m.peak_luminance[1].toFixed(3)} (ratio ${m.peak_ratio.toFixed(2)})`, "peak");
+  term(dl, "Lighting evaluations", `${fmt(r.lighting.gouraud_vertices)} per-vertex · ${fmt(r.lighting.phong_pixels)} per-pixel`, "cost");
+}
+
+let legendKey = "";
+function drawLegend() {
+  const s = viewer.scene();
+  const key = `${s.difference.scale_max}/${s.difference.threshold}`;
+  if (key === legendKey) return;
+  legendKey = key;
+  const c = $("legend");
+  const bytes = new Uint8ClampedArray(viewer.legend(c.width));
+  const ctx = c.getContext("2d");
+  for (let y = 0; y < c.height; y++) ctx.putImageData(new ImageData(bytes, c.width, 1), 0, y);
+  const t = s.difference.threshold / s.difference.scale_max;
+  if (t <= 1) {
+    ctx.fillStyle = "#ffffff";
+    ctx.fillRect(Math.round(t * (c.width - 1)) - 1, 0, 2, c.height);
+  }
+  $("legend-mark").textContent = `│ ${s.difference.threshold} just noticeable`;
+  $("legend-mark").style.left = `${Math.min(1, t) * 100}%`;
+  $("legend-mark").hidden = t > 1;
+  $("legend-max").textContent = `${s.difference.scale_max} dE00`;
+}
+
+const hex = (c) => "#" + c.map((v) => v.toString(16).padStart(2, "0")).join("");
+const lab = (l) => `Lab(${l.l.toFixed(1)}, ${l.a.toFixed(1)}, ${l.b.toFixed(1)})`;
+
+/** Shows both colours of a pixel and their difference. */
+function probeAt(canvas, clientX, clientY) {
+  const box = canvas.getBoundingClientRect();
+  const x = Math.floor(((clientX - box.left) / box.width) * canvas.width);
+  const y = Math.floor(((clientY - box.top) / box.height) * canvas.height);
+  const d = viewer.probe(x, y);
+  const out = $("probe");
+  if (!d) return;
+  const [a, b] = viewer.report().pair.map((p) => MODE_NAME[p]);
+  out.textContent =
+    `Pixel (${x}, ${y}): ${a} ${hex(d.a)} ${lab(d.lab_a)} · ${b} ${hex(d.b)} ${lab(d.lab_b)} · ` +
+    `dE00 ${d.de00.toFixed(3)} · dE*ab ${d.de76.toFixed(3)}`;
+  out.dataset.x = String(x);
+  out.dataset.y = String(y);
+  out.dataset.de00 = String(d.de00);
 }
 
 function shapeKind(scene) {
@@ -135,6 +208,9 @@ function syncControls() {
   $("roll-out").textContent = `${Math.round(s.camera.roll_deg)}°`;
   $("cull").checked = s.cull_back_faces;
   $("persp").checked = s.perspective_correct;
+  $("pair").value = s.difference.pair.join(",");
+  $("threshold").value = s.difference.threshold;
+  $("scale").value = s.difference.scale_max;
 }
 
 function bindControls() {
@@ -161,6 +237,9 @@ function bindControls() {
   on("cull", "change", (s) => { s.cull_back_faces = $("cull").checked; });
   on("persp", "change", (s) => { s.perspective_correct = $("persp").checked; });
   on("reset", "click", (s) => { s.rotation = [0, 0, 0, 1]; });
+  on("pair", "change", (s) => { s.difference.pair = $("pair").value.split(","); });
+  on("threshold", "change", (s) => { s.difference.threshold = +$("threshold").value; });
+  on("scale", "change", (s) => { s.difference.scale_max = +$("scale").value; });
 }
 
 /** Dragging a panel turns the mesh; works for mouse, pen and touch. */
@@ -168,8 +247,10 @@ function bindTurning() {
   const DEG_PER_PX = 0.5;
   for (const canvas of canvases) {
     let last = null;
+    let travelled = 0;
     canvas.addEventListener("pointerdown", (e) => {
       last = [e.clientX, e.clientY];
+      travelled = 0;
       canvas.setPointerCapture(e.pointerId);
       e.preventDefault();
     });
@@ -178,14 +259,18 @@ function bindTurning() {
       const dx = e.clientX - last[0];
       const dy = e.clientY - last[1];
       last = [e.clientX, e.clientY];
+      travelled += Math.abs(dx) + Math.abs(dy);
       if (dx || dy) {
         viewer.turn(dx * DEG_PER_PX, dy * DEG_PER_PX);
         requestRender();
       }
     });
-    const end = () => { last = null; };
-    canvas.addEventListener("pointerup", end);
-    canvas.addEventListener("pointercancel", end);
+    canvas.addEventListener("pointerup", (e) => {
+      // A click without a drag probes the pixel under the pointer.
+      if (last && travelled < 3) probeAt(canvas, e.clientX, e.clientY);
+      last = null;
+    });
+    canvas.addEventListener("pointercancel", () => { last = null; });
     canvas.addEventListener("keydown", (e) => {
       const step = e.shiftKey ? 15 : 5;
       const turns = { ArrowLeft: [-step, 0], ArrowRight: [step, 0], ArrowUp: [0, -step], ArrowDown: [0, step] };
@@ -204,7 +289,8 @@ function fitPanels() {
   if (!fitToLayout) return;
   const box = $("panels").getBoundingClientRect();
   const gap = 16;
-  const cssW = Math.max(64, Math.floor((box.width - gap) / 2));
+  const n = canvases.length;
+  const cssW = Math.max(64, Math.floor((box.width - gap * (n - 1)) / n));
   const cssH = Math.max(48, Math.round((cssW * 3) / 4));
   const dpr = window.devicePixelRatio || 1;
   const w = Math.min(4096, Math.round(cssW * dpr));
@@ -246,7 +332,7 @@ async function start() {
   // For tests and the console: read-only access plus turning.
   window.twinshade = {
     sceneJson: () => viewer.sceneJson(),
-    stats: () => viewer.stats(),
+    report: () => viewer.report(),
   };
 }
 

@@ -11,8 +11,10 @@ mod webbuild;
 pub use png_out::{read_png, write_png};
 pub use webbuild::{build_wasm_pkg, build_web, crate_root};
 
-use crate::render::{Renderer, ShadingMode};
+use crate::measure::{Comparer, DiffMetrics, DifferenceSettings};
+use crate::render::ShadingMode;
 use crate::scene::Scene;
+use crate::workbench::{Panel, Workbench};
 use crate::{sheet, Framebuffer};
 use clap::{Parser, Subcommand};
 use std::path::{Path, PathBuf};
@@ -44,9 +46,28 @@ enum Command {
         /// Panel size, WIDTHxHEIGHT (overrides the scene's).
         #[arg(long, value_parser = parse_size)]
         size: Option<(u32, u32)>,
-        /// Folder for gouraud.png, phong.png and sheet.png (created if missing).
+        /// Folder for gouraud.png, phong.png, difference.png and sheet.png (created if missing).
         #[arg(long)]
         out_dir: PathBuf,
+        /// Also write the metrics (dE00, dE*ab, coverage, highlight, cost) as JSON here.
+        #[arg(long)]
+        metrics: Option<PathBuf>,
+    },
+    /// Compare two same-size sRGB PNG images (e.g. captures from an engine) in dE00.
+    Compare {
+        /// Image A (PNG).
+        a: PathBuf,
+        /// Image B (PNG).
+        b: PathBuf,
+        /// Write the difference image (PNG) here.
+        #[arg(long)]
+        out: Option<PathBuf>,
+        /// Write the metrics as JSON here.
+        #[arg(long)]
+        metrics: Option<PathBuf>,
+        /// Just-noticeable threshold in dE00.
+        #[arg(long, default_value_t = 1.0)]
+        threshold: f32,
     },
     /// Print a scene as JSON.
     Scene {
@@ -108,7 +129,15 @@ fn run(command: Command) -> Result<(), String> {
             scene,
             size,
             out_dir,
-        } => render(scene.as_deref(), size, &out_dir),
+            metrics,
+        } => render(scene.as_deref(), size, &out_dir, metrics.as_deref()),
+        Command::Compare {
+            a,
+            b,
+            out,
+            metrics,
+            threshold,
+        } => compare(&a, &b, out.as_deref(), metrics.as_deref(), threshold),
         Command::Scene { default, file } => {
             let scene = match (default, file) {
                 (_, Some(path)) => load_scene(&path)?,
@@ -133,7 +162,12 @@ fn load_scene(path: &Path) -> Result<Scene, String> {
     Scene::from_json(&text).map_err(|e| format!("{}: {e}", path.display()))
 }
 
-fn render(scene: Option<&Path>, size: Option<(u32, u32)>, out_dir: &Path) -> Result<(), String> {
+fn render(
+    scene: Option<&Path>,
+    size: Option<(u32, u32)>,
+    out_dir: &Path,
+    metrics: Option<&Path>,
+) -> Result<(), String> {
     let mut scene = match scene {
         Some(p) => load_scene(p)?,
         None => Scene::default(),
@@ -145,24 +179,126 @@ fn render(scene: Option<&Path>, size: Option<(u32, u32)>, out_dir: &Path) -> Res
     scene.validate().map_err(|e| e.to_string())?;
     std::fs::create_dir_all(out_dir)
         .map_err(|e| format!("cannot create {}: {e}", out_dir.display()))?;
-    let mut renderer = Renderer::new();
-    let mut panels = Vec::new();
-    for mode in [ShadingMode::Gouraud, ShadingMode::Phong] {
-        let mut fb = Framebuffer::new(0, 0);
-        renderer
-            .render(&scene, mode, &mut fb)
-            .map_err(|e| e.to_string())?;
-        let name = format!("{}.png", mode_file_name(mode));
-        png_out::write_png(&out_dir.join(&name), fb.width(), fb.height(), fb.bytes())?;
-        eprintln!("twinshade: wrote {}", out_dir.join(&name).display());
-        panels.push((mode, fb));
+    let mut bench = Workbench::new();
+    let report = *bench.render(&scene).map_err(|e| e.to_string())?;
+    let panels = [
+        (
+            Panel::Gouraud,
+            "gouraud.png",
+            ShadingMode::Gouraud.label().to_string(),
+        ),
+        (
+            Panel::Phong,
+            "phong.png",
+            ShadingMode::Phong.label().to_string(),
+        ),
+        (
+            Panel::Difference,
+            "difference.png",
+            format!(
+                "dE00 {} vs {} (0-{})",
+                mode_file_name(report.pair[0]),
+                mode_file_name(report.pair[1]),
+                scene.difference.scale_max
+            ),
+        ),
+    ];
+    for (panel, name, _) in &panels {
+        let fb = bench.framebuffer(*panel);
+        let path = out_dir.join(name);
+        png_out::write_png(&path, fb.width(), fb.height(), fb.bytes())?;
+        eprintln!("twinshade: wrote {}", path.display());
     }
-    let labelled: Vec<(&str, &Framebuffer)> =
-        panels.iter().map(|(m, fb)| (m.label(), fb)).collect();
+    let labelled: Vec<(&str, &Framebuffer)> = panels
+        .iter()
+        .map(|(p, _, label)| (label.as_str(), bench.framebuffer(*p)))
+        .collect();
     let img = sheet::sheet(&labelled);
     let path = out_dir.join("sheet.png");
     png_out::write_png(&path, img.width, img.height, &img.rgba)?;
     eprintln!("twinshade: wrote {}", path.display());
+    let m = &report.metrics;
+    eprintln!(
+        "twinshade: dE00 mean {:.3}, p95 {:.3}, max {:.3}; {:.1}% of {} covered pixels above {}; \
+         {} silhouette pixels; lighting evaluations: {} vertices vs {} pixels",
+        m.de00.mean,
+        m.de00.p95,
+        m.de00.max,
+        100.0 * m.share_above_threshold,
+        m.covered_pixels,
+        m.threshold_de00,
+        m.silhouette_mismatch_pixels,
+        report.lighting.gouraud_vertices,
+        report.lighting.phong_pixels
+    );
+    if let Some(path) = metrics {
+        write_json(path, &report)?;
+    }
+    Ok(())
+}
+
+fn write_json(path: &Path, value: &impl serde::Serialize) -> Result<(), String> {
+    let text = serde_json::to_string_pretty(value).map_err(|e| e.to_string())?;
+    std::fs::write(path, text + "\n")
+        .map_err(|e| format!("cannot write {}: {e}", path.display()))?;
+    eprintln!("twinshade: wrote {}", path.display());
+    Ok(())
+}
+
+/// Metrics of `compare`: the images' size and their difference.
+#[derive(serde::Serialize)]
+struct CompareReport {
+    width: usize,
+    height: usize,
+    metrics: DiffMetrics,
+}
+
+fn compare(
+    a: &Path,
+    b: &Path,
+    out: Option<&Path>,
+    metrics: Option<&Path>,
+    threshold: f32,
+) -> Result<(), String> {
+    let (wa, ha, pa) = png_out::read_png(a)?;
+    let (wb, hb, pb) = png_out::read_png(b)?;
+    if (wa, ha) != (wb, hb) {
+        return Err(format!(
+            "the images differ in size: {} is {wa}x{ha}, {} is {wb}x{hb}",
+            a.display(),
+            b.display()
+        ));
+    }
+    if !(threshold > 0.0 && threshold.is_finite()) {
+        return Err("the threshold must be a positive number".into());
+    }
+    let settings = DifferenceSettings {
+        threshold,
+        ..DifferenceSettings::default()
+    };
+    let mut diff = vec![0u8; pa.len()];
+    let m = Comparer::new().compare(&pa, &pb, None, None, settings, [0, 0, 0], &mut diff);
+    println!(
+        "dE00 mean {:.4}  p95 {:.4}  max {:.4}  above {threshold}: {:.2}% of {} pixels",
+        m.de00.mean,
+        m.de00.p95,
+        m.de00.max,
+        100.0 * m.share_above_threshold,
+        m.covered_pixels
+    );
+    if let Some(path) = out {
+        png_out::write_png(path, wa, ha, &diff)?;
+    }
+    if let Some(path) = metrics {
+        write_json(
+            path,
+            &CompareReport {
+                width: wa,
+                height: ha,
+                metrics: m,
+            },
+        )?;
+    }
     Ok(())
 }
 

@@ -23,7 +23,9 @@ pub fn read_png(path: &Path) -> Result<(usize, usize, Vec<u8>), String> {
     let file = File::open(path).map_err(|e| err(&e))?;
     let mut dec = png::Decoder::new(std::io::BufReader::new(file));
     dec.set_transformations(png::Transformations::EXPAND | png::Transformations::STRIP_16);
-    let mut reader = dec.read_info().map_err(|e| err(&e))?;
+    let mut reader = dec
+        .read_info()
+        .map_err(|e| err(&format!("not a readable PNG image ({e})")))?;
     let mut buf = vec![0; reader.output_buffer_size().unwrap_or(0)];
     let info = reader.next_frame(&mut buf).map_err(|e| err(&e))?;
     buf.truncate(info.buffer_size());

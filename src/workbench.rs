@@ -1,0 +1,193 @@
+//! The workbench: every panel of one scene and their comparison, as the page and the command
+//! line show them.
+//!
+//! It renders the Gouraud and Phong panels (and the exact-surface reference when the
+//! difference view compares against it), compares the selected pair into the difference
+//! panel, and reports the metrics with the cost side of the trade (lighting evaluations per
+//! path). Buffers live as long as the workbench: a frame allocates nothing once sizes are
+//! stable.
+
+use crate::color::parse_hex;
+use crate::framebuffer::Framebuffer;
+use crate::measure::{pixel_difference, Comparer, DiffMetrics, PixelDifference};
+use crate::mesh::Mesh;
+use crate::render::{PanelStats, Renderer, ShadingMode};
+use crate::scene::{Scene, SceneError};
+use serde::Serialize;
+
+/// Lighting evaluations per frame of each path: the cost side of the comparison.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Serialize)]
+pub struct LightingCost {
+    /// Gouraud: one evaluation per render vertex.
+    pub gouraud_vertices: u64,
+    /// Phong: one evaluation per shaded pixel.
+    pub phong_pixels: u64,
+    /// Exact reference: one evaluation per shaded pixel (0 when not rendered).
+    pub exact_pixels: u64,
+}
+
+/// What one frame of the workbench measured.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Serialize)]
+pub struct FrameReport {
+    /// Panel width in pixels.
+    pub width: u32,
+    /// Panel height in pixels.
+    pub height: u32,
+    /// Triangles drawn per panel.
+    pub triangles: u64,
+    /// The pair compared (A, B).
+    pub pair: [ShadingMode; 2],
+    /// The comparison of A against B.
+    pub metrics: DiffMetrics,
+    /// Lighting evaluations per path.
+    pub lighting: LightingCost,
+}
+
+/// Panels and the comparer for one scene at a time.
+#[derive(Default)]
+pub struct Workbench {
+    renderer: Renderer,
+    gouraud: Framebuffer,
+    phong: Framebuffer,
+    exact: Framebuffer,
+    difference: Framebuffer,
+    comparer: Comparer,
+    stats: [PanelStats; 3],
+    report: FrameReport,
+}
+
+impl Workbench {
+    /// An empty workbench.
+    pub fn new() -> Self {
+        Self::default()
+    }
+
+    /// Supplies the mesh for scenes whose source is a file (see [`Renderer::set_file_mesh`]).
+    pub fn set_file_mesh(&mut self, mesh: Mesh) {
+        self.renderer.set_file_mesh(mesh);
+    }
+
+    /// Renders every panel the scene needs and compares the selected pair.
+    ///
+    /// # Errors
+    /// When the scene is invalid or names a mesh file that was not supplied.
+    pub fn render(&mut self, scene: &Scene) -> Result<&FrameReport, SceneError> {
+        scene.validate()?;
+        self.stats[0] = self
+            .renderer
+            .render(scene, ShadingMode::Gouraud, &mut self.gouraud)?;
+        self.stats[1] = self
+            .renderer
+            .render(scene, ShadingMode::Phong, &mut self.phong)?;
+        let pair = scene.difference.pair;
+        self.stats[2] = if pair.contains(&ShadingMode::Exact) {
+            self.renderer
+                .render(scene, ShadingMode::Exact, &mut self.exact)?
+        } else {
+            PanelStats::default()
+        };
+        let (w, h) = (self.gouraud.width(), self.gouraud.height());
+        self.difference.resize(w, h);
+        let bg = parse_hex(&scene.background).map_err(SceneError)?;
+        let Workbench {
+            gouraud,
+            phong,
+            exact,
+            difference,
+            comparer,
+            ..
+        } = self;
+        let pick = |mode: ShadingMode| match mode {
+            ShadingMode::Gouraud => Some(&*gouraud),
+            ShadingMode::Phong => Some(&*phong),
+            ShadingMode::Exact => Some(&*exact),
+            ShadingMode::Flat => None,
+        };
+        let (Some(fa), Some(fb)) = (pick(pair[0]), pick(pair[1])) else {
+            return Err(SceneError(
+                "the difference view compares two of gouraud, phong and exact".into(),
+            ));
+        };
+        let cover_a = |i: usize| fa.covered(i);
+        let cover_b = |i: usize| fb.covered(i);
+        let metrics = comparer.compare(
+            fa.bytes(),
+            fb.bytes(),
+            Some(&cover_a),
+            Some(&cover_b),
+            scene.difference,
+            bg,
+            difference.bytes_mut(),
+        );
+        self.report = FrameReport {
+            width: w as u32,
+            height: h as u32,
+            triangles: self.stats[1].triangles,
+            pair,
+            metrics,
+            lighting: LightingCost {
+                gouraud_vertices: self.stats[0].lit_vertices,
+                phong_pixels: self.stats[1].fragments,
+                exact_pixels: self.stats[2].fragments,
+            },
+        };
+        Ok(&self.report)
+    }
+
+    fn panel_of(&self, mode: ShadingMode) -> Option<usize> {
+        match mode {
+            ShadingMode::Gouraud => Some(0),
+            ShadingMode::Phong => Some(1),
+            ShadingMode::Exact => Some(2),
+            ShadingMode::Flat => None,
+        }
+    }
+
+    fn panel(&self, i: usize) -> &Framebuffer {
+        match i {
+            0 => &self.gouraud,
+            1 => &self.phong,
+            _ => &self.exact,
+        }
+    }
+
+    /// The last frame's report.
+    pub fn report(&self) -> &FrameReport {
+        &self.report
+    }
+
+    /// A rendered panel: Gouraud, Phong, exact (if rendered), or the difference image.
+    pub fn framebuffer(&self, which: Panel) -> &Framebuffer {
+        match which {
+            Panel::Gouraud => &self.gouraud,
+            Panel::Phong => &self.phong,
+            Panel::Exact => &self.exact,
+            Panel::Difference => &self.difference,
+        }
+    }
+
+    /// The colours of pixel (x, y) in the compared pair and their difference, or `None`
+    /// outside the panel.
+    pub fn probe(&self, pair: [ShadingMode; 2], x: usize, y: usize) -> Option<PixelDifference> {
+        let (w, h) = (self.gouraud.width(), self.gouraud.height());
+        if x >= w || y >= h {
+            return None;
+        }
+        let a = self.panel(self.panel_of(pair[0])?).rgba(x, y);
+        let b = self.panel(self.panel_of(pair[1])?).rgba(x, y);
+        Some(pixel_difference([a[0], a[1], a[2]], [b[0], b[1], b[2]]))
+    }
+}
+
+/// The workbench's panels.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Panel {
+    /// Per-vertex lighting.
+    Gouraud,
+    /// Per-pixel lighting.
+    Phong,
+    /// Exact-surface reference.
+    Exact,
+    /// The difference image of the compared pair.
+    Difference,
+}
