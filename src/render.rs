@@ -295,11 +295,16 @@ impl Renderer {
             }
             ShadingMode::Exact => {
                 let shape = geo.shape.unwrap_or_default();
+                let r = Mat3::from_quat(rotation);
                 let shader = ExactSurface {
                     lighting: &lighting,
                     enc,
                     shape,
-                    rotation: Mat3::from_quat(rotation),
+                    rotation: r,
+                    inverse: r.transpose(),
+                    eye: camera.eye,
+                    toward_eye: camera.toward_eye,
+                    orthographic: camera.orthographic,
                 };
                 let pos = &geo.vb.positions;
                 ctx.draw(
@@ -524,20 +529,36 @@ impl FragmentShader<6> for PerPixel<'_> {
     }
 }
 
-/// Exact: the analytic normal at the interpolated object-space point.
+/// Exact: the pixel's view ray is followed from the mesh's interpolated point to the analytic
+/// surface, which is lit there with its true normal (the nearest-point normal if the ray
+/// search does not settle).
 #[derive(Clone, Copy)]
 struct ExactSurface<'a> {
     lighting: &'a Lighting,
     enc: SrgbEncoder,
     shape: Shape,
     rotation: Mat3,
+    inverse: Mat3,
+    eye: Vec3,
+    toward_eye: Vec3,
+    orthographic: bool,
 }
 
 impl FragmentShader<3> for ExactSurface<'_> {
     fn shade(&self, v: &[f32; 3]) -> u32 {
         let p = Vec3::from_array(*v);
-        let n = self.shape.exact_normal(p).unwrap_or(Vec3::Z);
-        let c = self.lighting.shade(self.rotation * n, self.rotation * p);
+        let world = self.rotation * p;
+        let ray = if self.orthographic {
+            -self.toward_eye
+        } else {
+            (world - self.eye).normalize_or_zero()
+        };
+        let (hit, n) = self
+            .shape
+            .exact_hit(p, self.inverse * ray)
+            .or_else(|| Some((p, self.shape.exact_normal(p)?)))
+            .unwrap_or((p, Vec3::Z));
+        let c = self.lighting.shade(self.rotation * n, self.rotation * hit);
         self.enc.pack(c.x, c.y, c.z)
     }
 }

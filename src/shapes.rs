@@ -129,6 +129,63 @@ impl Shape {
         }
     }
 
+    /// True for shapes that approximate a smooth analytic surface (spheres, torus, vase).
+    pub fn has_exact_surface(&self) -> bool {
+        !matches!(self, Shape::Cube | Shape::QuadGrid { .. })
+    }
+
+    /// The analytic surface as an implicit function: (F(p), grad F(p)), F = 0 on the
+    /// surface, negative inside; `None` for shapes without one.
+    fn implicit(&self, p: DVec3) -> Option<(f64, DVec3)> {
+        match self {
+            Shape::Icosphere { .. } | Shape::UvSphere { .. } => {
+                let len = p.length();
+                Some((len - 1.0, p / len.max(1e-300)))
+            }
+            Shape::Torus { .. } => {
+                let ring = DVec3::new(p.x, 0.0, p.z);
+                let rho = ring.length().max(1e-300);
+                let q = p - ring * (TORUS_R / rho);
+                let len = q.length();
+                Some((len - TORUS_T, q / len.max(1e-300)))
+            }
+            Shape::Vase { .. } => {
+                let t = ((p.y + 0.9) / 1.8).clamp(1e-9, 1.0 - 1e-9);
+                let (r, _, dr, dy) = vase_profile(t);
+                let ring = DVec3::new(p.x, 0.0, p.z);
+                let rho = ring.length();
+                let dir = if rho > 0.0 { ring / rho } else { DVec3::X };
+                // d r / d y = (dr/dt) / (dy/dt).
+                Some((rho - r, dir + DVec3::new(0.0, -dr / dy, 0.0)))
+            }
+            Shape::Cube | Shape::QuadGrid { .. } => None,
+        }
+    }
+
+    /// Where the view ray through object-space point `p` (direction `dir`, unit) meets the
+    /// analytic surface near `p`, and the surface's unit normal there: Newton's method on the
+    /// implicit function along the ray, started at the mesh's point. `None` for shapes without
+    /// an analytic surface or when the iteration does not settle (then the caller falls back).
+    pub fn exact_hit(&self, p: Vec3, dir: Vec3) -> Option<(Vec3, Vec3)> {
+        let (p0, d) = (p.as_dvec3(), dir.as_dvec3());
+        let mut t = 0.0;
+        for _ in 0..8 {
+            let (f, g) = self.implicit(p0 + d * t)?;
+            let slope = g.dot(d);
+            if slope.abs() < 1e-9 {
+                return None;
+            }
+            let step = f / slope;
+            t -= step;
+            if step.abs() < 1e-9 {
+                let hit = p0 + d * t;
+                let (_, g) = self.implicit(hit)?;
+                return g.try_normalize().map(|n| (hit.as_vec3(), n.as_vec3()));
+            }
+        }
+        None
+    }
+
     /// The true unit normal of the analytic surface nearest to object-space point `p`, for
     /// shapes that approximate a smooth surface (spheres, torus, vase); `None` otherwise.
     pub fn exact_normal(&self, p: Vec3) -> Option<Vec3> {
