@@ -91,7 +91,6 @@ struct FrameKey {
 #[derive(Default)]
 pub struct Renderer {
     imported: Option<Mesh>,
-    imported_generation: u64,
     geometry: Option<Geometry>,
     generation: u64,
     frame_key: Option<FrameKey>,
@@ -114,7 +113,6 @@ impl Renderer {
     /// have passed [`Mesh::validate`].
     pub fn set_file_mesh(&mut self, mesh: Mesh) {
         self.imported = Some(mesh);
-        self.imported_generation += 1;
         self.geometry = None;
     }
 
@@ -157,7 +155,7 @@ impl Renderer {
             source: scene.mesh.clone(),
             normals: scene.normals,
             triangulation: scene.triangulation,
-            generation: self.generation + (self.imported_generation << 32),
+            generation: self.generation,
             vb,
             shape,
         });

@@ -179,7 +179,10 @@ impl fmt::Display for SceneError {
 
 impl std::error::Error for SceneError {}
 
-fn finite(name: &str, v: f32) -> Result<(), SceneError> {
+// The checks below take the field's name as `impl Display` so that a valid scene is checked
+// without formatting (and allocating) any message: the page validates every frame.
+
+fn finite(name: impl fmt::Display, v: f32) -> Result<(), SceneError> {
     if v.is_finite() {
         Ok(())
     } else {
@@ -187,7 +190,7 @@ fn finite(name: &str, v: f32) -> Result<(), SceneError> {
     }
 }
 
-fn in_range(name: &str, v: f32, lo: f32, hi: f32) -> Result<(), SceneError> {
+fn in_range(name: impl fmt::Display, v: f32, lo: f32, hi: f32) -> Result<(), SceneError> {
     if (lo..=hi).contains(&v) {
         Ok(())
     } else {
@@ -197,7 +200,16 @@ fn in_range(name: &str, v: f32, lo: f32, hi: f32) -> Result<(), SceneError> {
     }
 }
 
-fn colour(name: &str, v: &str) -> Result<(), SceneError> {
+/// "light N field", formatted only when a message is needed.
+struct LightField(usize, &'static str);
+
+impl fmt::Display for LightField {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        write!(f, "light {} {}", self.0 + 1, self.1)
+    }
+}
+
+fn colour(name: impl fmt::Display, v: &str) -> Result<(), SceneError> {
     parse_hex(v)
         .map(|_| ())
         .map_err(|e| SceneError(format!("{name}: {e}")))
@@ -244,7 +256,7 @@ impl Scene {
         in_range("crease angle", self.normals.crease_deg, 0.0, 180.0)?;
         self.camera.validate().map_err(SceneError)?;
         for (i, v) in self.rotation.iter().enumerate() {
-            finite(&format!("rotation[{i}]"), *v)?;
+            finite(format_args!("rotation[{i}]"), *v)?;
         }
         if self.rotation.iter().map(|v| v * v).sum::<f32>() < 1e-12 {
             return Err(SceneError("rotation quaternion has zero length".into()));
@@ -256,13 +268,13 @@ impl Scene {
             )));
         }
         for (i, l) in self.lights.iter().enumerate() {
-            let n = |f: &str| format!("light {} {f}", i + 1);
-            finite(&n("azimuth"), l.azimuth_deg)?;
-            in_range(&n("elevation"), l.elevation_deg, -90.0, 90.0)?;
-            in_range(&n("distance"), l.distance, 0.0, 1000.0)?;
-            in_range(&n("intensity"), l.intensity, 0.0, 100.0)?;
-            in_range(&n("falloff"), l.falloff, 0.0, 100.0)?;
-            colour(&n("colour"), &l.color)?;
+            let n = |f: &'static str| LightField(i, f);
+            finite(n("azimuth"), l.azimuth_deg)?;
+            in_range(n("elevation"), l.elevation_deg, -90.0, 90.0)?;
+            in_range(n("distance"), l.distance, 0.0, 1000.0)?;
+            in_range(n("intensity"), l.intensity, 0.0, 100.0)?;
+            in_range(n("falloff"), l.falloff, 0.0, 100.0)?;
+            colour(n("colour"), &l.color)?;
         }
         colour("ambient light", &self.ambient_light)?;
         colour("background", &self.background)?;
