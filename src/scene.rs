@@ -353,3 +353,49 @@ pub fn axis_angle(axis: glam::Vec3, deg: f32) -> Quat {
     let (s, c) = (libm::sinf(half), libm::cosf(half));
     Quat::from_xyzw(axis.x * s, axis.y * s, axis.z * s, c)
 }
+
+impl Scene {
+    /// The fixed benchmark scene (shared/peers/SCENE.md, "BENCH SCENE v1"): icosphere of
+    /// `level`, camera at distance 3 with a 45-degree vertical field of view, Blinn-Phong 64,
+    /// a white directional light along (1, 1, 1) and a 0.8 grey point light at (2, 1, 2)
+    /// falling off as 1 / (1 + 0.1 d^2), a dark red base, black background, turned `frame`
+    /// degrees about +y. (The base colour is the sRGB code nearest to linear (0.6, 0.1, 0.1).)
+    pub fn bench(level: u32, width: u32, height: u32, frame: u32) -> Scene {
+        let mut s = Scene {
+            mesh: MeshSource::Shape(Shape::Icosphere { level }),
+            panel: PanelSize { width, height },
+            background: "#000000".into(),
+            ..Scene::default()
+        };
+        let elevation = |y: f32, len: f32| libm::asinf(y / len).to_degrees();
+        s.lights = vec![
+            Light {
+                kind: LightKind::Directional,
+                azimuth_deg: 45.0,
+                elevation_deg: elevation(1.0, 3.0f32.sqrt()),
+                color: "#ffffff".into(),
+                intensity: 1.0,
+                ..Light::default()
+            },
+            Light {
+                kind: LightKind::Point,
+                azimuth_deg: 45.0,
+                elevation_deg: elevation(1.0, 3.0),
+                distance: 3.0,
+                color: "#ffffff".into(),
+                intensity: 0.8,
+                falloff: 0.1,
+            },
+        ];
+        s.material = Material {
+            base_color: "#cb5959".into(),
+            ambient: 0.05,
+            diffuse: 1.0,
+            specular: 0.5,
+            shininess: 64.0,
+            ..Material::default()
+        };
+        s.set_rotation(axis_angle(glam::Vec3::Y, frame as f32));
+        s
+    }
+}

@@ -72,13 +72,7 @@ impl Workbench {
     /// # Errors
     /// When the scene is invalid or names a mesh file that was not supplied.
     pub fn render(&mut self, scene: &Scene) -> Result<&FrameReport, SceneError> {
-        scene.validate()?;
-        self.stats[0] = self
-            .renderer
-            .render(scene, ShadingMode::Gouraud, &mut self.gouraud)?;
-        self.stats[1] = self
-            .renderer
-            .render(scene, ShadingMode::Phong, &mut self.phong)?;
+        self.render_panels(scene)?;
         let pair = scene.difference.pair;
         self.stats[2] = if pair.contains(&ShadingMode::Exact) {
             self.renderer
@@ -132,6 +126,22 @@ impl Workbench {
             },
         };
         Ok(&self.report)
+    }
+
+    /// Renders only the Gouraud and Phong panels (no exact reference, no comparison): the
+    /// benchmark's unit of work. Returns (Gouraud, Phong) statistics.
+    ///
+    /// # Errors
+    /// As [`Workbench::render`].
+    pub fn render_panels(&mut self, scene: &Scene) -> Result<[PanelStats; 2], SceneError> {
+        scene.validate()?;
+        self.stats[0] = self
+            .renderer
+            .render(scene, ShadingMode::Gouraud, &mut self.gouraud)?;
+        self.stats[1] = self
+            .renderer
+            .render(scene, ShadingMode::Phong, &mut self.phong)?;
+        Ok([self.stats[0], self.stats[1]])
     }
 
     fn panel_of(&self, mode: ShadingMode) -> Option<usize> {

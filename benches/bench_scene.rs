@@ -1,0 +1,52 @@
+//! The fixed BENCH SCENE (shared/peers/SCENE.md) rendered natively: both panels (Gouraud and
+//! Phong) per frame, as the in-browser benchmark page does in wasm.
+//!
+//! Run: `cargo bench --bench bench_scene`. Criterion prints time per frame; the environment
+//! it ran on is printed first (record figures with it).
+
+use criterion::{criterion_group, criterion_main, BenchmarkId, Criterion};
+use twinshade::{Scene, Workbench};
+
+fn environment() {
+    let cpu = std::fs::read_to_string("/proc/cpuinfo")
+        .ok()
+        .and_then(|t| {
+            t.lines()
+                .find(|l| l.starts_with("model name"))
+                .map(|l| l.split(':').nth(1).unwrap_or("").trim().to_string())
+        })
+        .unwrap_or_else(|| "unknown CPU".into());
+    let cores = std::thread::available_parallelism().map_or(0, |n| n.get());
+    eprintln!(
+        "bench_scene on {cpu}, {cores} logical cores, {} {}, single-threaded renderer",
+        std::env::consts::OS,
+        std::env::consts::ARCH
+    );
+}
+
+fn frames(c: &mut Criterion) {
+    environment();
+    let mut group = c.benchmark_group("bench_scene_frame");
+    group.sample_size(30);
+    for (level, w, h) in [(5, 800, 600), (7, 800, 600), (5, 400, 300), (7, 400, 300)] {
+        let mut bench = Workbench::new();
+        let mut frame = 0u32;
+        // Warm up: geometry built, buffers sized.
+        bench
+            .render_panels(&Scene::bench(level, w, h, 0))
+            .expect("bench scene renders");
+        let scenes: Vec<Scene> = (0..360).map(|f| Scene::bench(level, w, h, f)).collect();
+        group.bench_function(BenchmarkId::from_parameter(format!("L{level}_{w}x{h}")), |b| {
+            b.iter(|| {
+                frame = (frame + 1) % 360;
+                bench
+                    .render_panels(&scenes[frame as usize])
+                    .expect("frame renders")
+            })
+        });
+    }
+    group.finish();
+}
+
+criterion_group!(benches, frames);
+criterion_main!(benches);
