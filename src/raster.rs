@@ -87,11 +87,14 @@ impl Plane {
     }
 }
 
-/// Snaps a screen coordinate to fixed point. Callers keep coordinates within the clipper's
-/// guard band, so the product cannot overflow.
+/// Snaps a screen coordinate to fixed point, rounding half away from zero by adding 0.5 with
+/// the value's sign and truncating (one conversion instruction; `f32::round` is a library
+/// call on x86-64). Callers keep coordinates within the clipper's guard band, so the product
+/// cannot overflow.
 #[inline(always)]
 fn snap(v: f32) -> i64 {
-    (v * ONE as f32).round() as i64
+    let t = v * ONE as f32;
+    (t + 0.5f32.copysign(t)) as i64
 }
 
 /// Draws one triangle; returns the number of fragments shaded (those that passed the depth
