@@ -97,6 +97,67 @@ fn snap(v: f32) -> i64 {
     (t + 0.5f32.copysign(t)) as i64
 }
 
+/// Snaps a vertex's screen position to fixed point (see [`SUBPIXEL_BITS`]).
+#[inline(always)]
+pub fn snap_xy(x: f32, y: f32) -> [i64; 2] {
+    [snap(x), snap(y)]
+}
+
+/// A triangle's coverage set-up: snapped corners in drawing order (positive area) and the
+/// pixel rectangle to visit. Made before any varying is fetched, so culled, degenerate and
+/// pixel-less triangles cost only this.
+#[derive(Clone, Copy, Debug)]
+pub struct Coverage {
+    x: [i64; 3],
+    y: [i64; 3],
+    /// Corners 1 and 2 were swapped to make the area positive (front facing).
+    swapped: bool,
+    px: (i64, i64),
+    py: (i64, i64),
+}
+
+impl Coverage {
+    /// Sets up a triangle from snapped corners; `None` when it is culled, has no area, or
+    /// covers no pixel centre of a `width` x `height` target.
+    #[inline]
+    pub fn new(p: [[i64; 2]; 3], cull: Cull, width: usize, height: usize) -> Option<Coverage> {
+        let [[x0, y0], [mut x1, mut y1], [mut x2, mut y2]] = p;
+        // Twice the signed area with y down: positive when the corners run clockwise on screen.
+        let area = (x1 - x0) * (y2 - y0) - (y1 - y0) * (x2 - x0);
+        if area == 0 {
+            return None;
+        }
+        let swapped = area < 0;
+        if swapped {
+            // Counter-clockwise on screen = front facing (CCW in NDC). Swap to positive area.
+            std::mem::swap(&mut x1, &mut x2);
+            std::mem::swap(&mut y1, &mut y2);
+        } else if cull == Cull::Back {
+            return None;
+        }
+        // Pixels whose centre (i * ONE + HALF) lies inside the snapped bounding box.
+        let (w, h) = (width as i64, height as i64);
+        let min_x = x0.min(x1).min(x2);
+        let max_x = x0.max(x1).max(x2);
+        let min_y = y0.min(y1).min(y2);
+        let max_y = y0.max(y1).max(y2);
+        let px0 = ((min_x - HALF + ONE - 1) >> SUBPIXEL_BITS).max(0);
+        let px1 = ((max_x - HALF) >> SUBPIXEL_BITS).min(w - 1);
+        let py0 = ((min_y - HALF + ONE - 1) >> SUBPIXEL_BITS).max(0);
+        let py1 = ((max_y - HALF) >> SUBPIXEL_BITS).min(h - 1);
+        if px0 > px1 || py0 > py1 {
+            return None;
+        }
+        Some(Coverage {
+            x: [x0, x1, x2],
+            y: [y0, y1, y2],
+            swapped,
+            px: (px0, px1),
+            py: (py0, py1),
+        })
+    }
+}
+
 /// Draws one triangle; returns the number of fragments shaded (those that passed the depth
 /// test). `PERSP` selects perspective-correct (true) or screen-affine (false) interpolation.
 pub fn draw_triangle<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
@@ -105,38 +166,30 @@ pub fn draw_triangle<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
     cull: Cull,
     shader: &S,
 ) -> u32 {
-    let [v0, mut v1, mut v2] = tri;
-    let (x0, y0) = (snap(v0.x), snap(v0.y));
-    let (mut x1, mut y1) = (snap(v1.x), snap(v1.y));
-    let (mut x2, mut y2) = (snap(v2.x), snap(v2.y));
-    // Twice the signed area with y down: positive when the corners run clockwise on screen.
-    let area = (x1 - x0) * (y2 - y0) - (y1 - y0) * (x2 - x0);
-    if area == 0 {
-        return 0;
+    let p = tri.map(|v| snap_xy(v.x, v.y));
+    match Coverage::new(p, cull, target.width, target.height) {
+        Some(c) => fill::<N, PERSP, S>(target, &c, tri, shader),
+        None => 0,
     }
-    if area < 0 {
-        // Counter-clockwise on screen = front facing (CCW in NDC). Swap to positive area.
-        std::mem::swap(&mut v1, &mut v2);
-        std::mem::swap(&mut x1, &mut x2);
-        std::mem::swap(&mut y1, &mut y2);
-    } else if cull == Cull::Back {
-        return 0;
-    }
+}
 
-    let w = target.width as i64;
-    let h = target.height as i64;
-    // Pixels whose centre (i * ONE + HALF) lies inside the snapped bounding box.
-    let min_x = x0.min(x1).min(x2);
-    let max_x = x0.max(x1).max(x2);
-    let min_y = y0.min(y1).min(y2);
-    let max_y = y0.max(y1).max(y2);
-    let px0 = ((min_x - HALF + ONE - 1) >> SUBPIXEL_BITS).max(0);
-    let px1 = ((max_x - HALF) >> SUBPIXEL_BITS).min(w - 1);
-    let py0 = ((min_y - HALF + ONE - 1) >> SUBPIXEL_BITS).max(0);
-    let py1 = ((max_y - HALF) >> SUBPIXEL_BITS).min(h - 1);
-    if px0 > px1 || py0 > py1 {
-        return 0;
-    }
+/// Fills a set-up triangle whose corners (in their original order) are `tri`; returns the
+/// number of fragments shaded.
+pub fn fill<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
+    target: &mut Target<'_>,
+    cov: &Coverage,
+    tri: [&RasterVertex<N>; 3],
+    shader: &S,
+) -> u32 {
+    let [v0, v1, v2] = if cov.swapped {
+        [tri[0], tri[2], tri[1]]
+    } else {
+        tri
+    };
+    let [x0, x1, x2] = cov.x;
+    let [y0, y1, y2] = cov.y;
+    let (px0, px1) = cov.px;
+    let (py0, py1) = cov.py;
 
     // Edge function of the edge a -> b at point p (positive inside):
     //   E(p) = (bx - ax)(py - ay) - (by - ay)(px - ax) = A px + B py + C,

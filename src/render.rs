@@ -22,7 +22,7 @@ use crate::framebuffer::Framebuffer;
 use crate::lighting::Lighting;
 use crate::mesh::Mesh;
 use crate::normals::compute_normals;
-use crate::raster::{draw_triangle, Cull, FragmentShader, RasterVertex, Target};
+use crate::raster::{draw_triangle, fill, snap_xy, Coverage, Cull, FragmentShader, RasterVertex, Target};
 use crate::scene::{MeshSource, NormalSettings, NormalSource, Scene, SceneError};
 use crate::shapes::Shape;
 use crate::vertex_buffer::{Triangulation, VertexBuffer};
@@ -99,6 +99,7 @@ pub struct Renderer {
     clip: Vec<Vec4>,
     outcodes: Vec<u8>,
     screen: Vec<[f32; 4]>,
+    fixed: Vec<[i64; 2]>,
     vertex_color: Vec<Vec3>,
     face_color: Vec<u32>,
 }
@@ -210,6 +211,7 @@ impl Renderer {
             clip: &self.clip,
             outcodes: &self.outcodes,
             screen: &self.screen,
+            fixed: &self.fixed,
             size: (width as f32, height as f32),
             cull,
         };
@@ -347,6 +349,7 @@ impl Renderer {
         self.clip.clear();
         self.outcodes.clear();
         self.screen.clear();
+        self.fixed.clear();
         for (p, n) in vb.positions.iter().zip(&vb.normals) {
             let pw = r * *p;
             let c = camera.view_proj * pw.extend(1.0);
@@ -355,11 +358,9 @@ impl Renderer {
             self.world_nrm.push(r * *n);
             self.clip.push(c);
             self.outcodes.push(code);
-            self.screen.push(if code == 0 {
-                project(c, w, h)
-            } else {
-                [0.0; 4]
-            });
+            let s = if code == 0 { project(c, w, h) } else { [0.0; 4] };
+            self.screen.push(s);
+            self.fixed.push(snap_xy(s[0], s[1]));
         }
         self.frame_key = Some(key);
     }
@@ -384,6 +385,7 @@ struct DrawContext<'a> {
     clip: &'a [Vec4],
     outcodes: &'a [u8],
     screen: &'a [[f32; 4]],
+    fixed: &'a [[i64; 2]],
     size: (f32, f32),
     cull: Cull,
 }
@@ -418,8 +420,17 @@ impl DrawContext<'_> {
             if codes[0] & codes[1] & codes[2] != 0 {
                 continue; // entirely outside one plane
             }
-            let shader = shader_for(t);
             if codes[0] | codes[1] | codes[2] == 0 {
+                // Coverage first: culled or pixel-less triangles never fetch varyings.
+                let Some(cov) = Coverage::new(
+                    tri.map(|v| self.fixed[v as usize]),
+                    self.cull,
+                    target.width,
+                    target.height,
+                ) else {
+                    continue;
+                };
+                let shader = shader_for(t);
                 let rv = tri.map(|v| {
                     let s = self.screen[v as usize];
                     let mut var = varying(v);
@@ -436,14 +447,15 @@ impl DrawContext<'_> {
                         var,
                     }
                 });
-                shaded += u64::from(draw_triangle::<N, PERSP, S>(
+                shaded += u64::from(fill::<N, PERSP, S>(
                     target,
+                    &cov,
                     [&rv[0], &rv[1], &rv[2]],
-                    self.cull,
                     &shader,
                 ));
                 continue;
             }
+            let shader = shader_for(t);
             let poly = ClipPolygon::clip(tri.map(|v| ClipVertex {
                 pos: self.clip[v as usize],
                 var: varying(v),
