@@ -36,14 +36,17 @@ fn frames(c: &mut Criterion) {
             .render_panels(&Scene::bench(level, w, h, 0))
             .expect("bench scene renders");
         let scenes: Vec<Scene> = (0..360).map(|f| Scene::bench(level, w, h, f)).collect();
-        group.bench_function(BenchmarkId::from_parameter(format!("L{level}_{w}x{h}")), |b| {
-            b.iter(|| {
-                frame = (frame + 1) % 360;
-                bench
-                    .render_panels(&scenes[frame as usize])
-                    .expect("frame renders")
-            })
-        });
+        group.bench_function(
+            BenchmarkId::from_parameter(format!("L{level}_{w}x{h}")),
+            |b| {
+                b.iter(|| {
+                    frame = (frame + 1) % 360;
+                    bench
+                        .render_panels(&scenes[frame as usize])
+                        .expect("frame renders")
+                })
+            },
+        );
     }
     group.finish();
 }

@@ -48,8 +48,66 @@ pub struct RasterVertex<const N: usize> {
 
 /// The shading stage: turns interpolated varyings into a packed RGBA8 pixel.
 pub trait FragmentShader<const N: usize> {
+    /// True when fragments may be collected and shaded four at a time with
+    /// [`FragmentShader::shade4`], possibly after later triangles were tested: such a shader
+    /// must be the same for every triangle of a draw.
+    const BATCH: bool = false;
+
     /// Shades one fragment that passed the depth test.
     fn shade(&self, var: &[f32; N]) -> u32;
+
+    /// Shades four fragments; must give exactly what four [`FragmentShader::shade`] calls give.
+    #[inline]
+    fn shade4(&self, var: &[[f32; N]; 4]) -> [u32; 4] {
+        [0, 1, 2, 3].map(|k| self.shade(&var[k]))
+    }
+}
+
+/// Fragments that passed the depth test and wait to be shaded four at a time.
+pub struct Batch<const N: usize> {
+    index: [usize; 4],
+    var: [[f32; N]; 4],
+    len: usize,
+}
+
+impl<const N: usize> Default for Batch<N> {
+    fn default() -> Self {
+        Batch {
+            index: [0; 4],
+            var: [[0.0; N]; 4],
+            len: 0,
+        }
+    }
+}
+
+impl<const N: usize> Batch<N> {
+    #[inline(always)]
+    fn push<S: FragmentShader<N>>(
+        &mut self,
+        color: &mut [u32],
+        i: usize,
+        var: [f32; N],
+        shader: &S,
+    ) {
+        self.index[self.len] = i;
+        self.var[self.len] = var;
+        self.len += 1;
+        if self.len == 4 {
+            let out = shader.shade4(&self.var);
+            for k in 0..4 {
+                color[self.index[k]] = out[k];
+            }
+            self.len = 0;
+        }
+    }
+
+    /// Shades what is left, one by one, in the order the fragments arrived.
+    pub fn flush<S: FragmentShader<N>>(&mut self, color: &mut [u32], shader: &S) {
+        for k in 0..self.len {
+            color[self.index[k]] = shader.shade(&self.var[k]);
+        }
+        self.len = 0;
+    }
 }
 
 /// Which triangles to skip by facing.
@@ -167,19 +225,24 @@ pub fn draw_triangle<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
     shader: &S,
 ) -> u32 {
     let p = tri.map(|v| snap_xy(v.x, v.y));
-    match Coverage::new(p, cull, target.width, target.height) {
-        Some(c) => fill::<N, PERSP, S>(target, &c, tri, shader),
+    let mut batch = Batch::default();
+    let n = match Coverage::new(p, cull, target.width, target.height) {
+        Some(c) => fill::<N, PERSP, S>(target, &c, tri, shader, &mut batch),
         None => 0,
-    }
+    };
+    batch.flush(target.color, shader);
+    n
 }
 
 /// Fills a set-up triangle whose corners (in their original order) are `tri`; returns the
-/// number of fragments shaded.
+/// number of fragments shaded. With a batching shader, up to three fragments may remain in
+/// `batch` afterwards: flush it with the same shader when the draw ends.
 pub fn fill<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
     target: &mut Target<'_>,
     cov: &Coverage,
     tri: [&RasterVertex<N>; 3],
     shader: &S,
+    batch: &mut Batch<N>,
 ) -> u32 {
     let [v0, v1, v2] = if cov.swapped {
         [tri[0], tri[2], tri[1]]
@@ -267,7 +330,11 @@ pub fn fill<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
                             frag[k] = var_row[k] + var[k].dx * xf;
                         }
                     }
-                    target.color[i] = shader.shade(&frag);
+                    if S::BATCH {
+                        batch.push(target.color, i, frag, shader);
+                    } else {
+                        target.color[i] = shader.shade(&frag);
+                    }
                     shaded += 1;
                 }
             } else if entered {

@@ -19,10 +19,11 @@ use crate::camera::CameraFrame;
 use crate::clip::{outcode, ClipPolygon, ClipVertex};
 use crate::color::{parse_hex, SrgbEncoder};
 use crate::framebuffer::Framebuffer;
+use crate::lanes::{F4, V4};
 use crate::lighting::Lighting;
 use crate::mesh::Mesh;
 use crate::normals::compute_normals;
-use crate::raster::{draw_triangle, fill, snap_xy, Coverage, Cull, FragmentShader, RasterVertex, Target};
+use crate::raster::{fill, snap_xy, Batch, Coverage, Cull, FragmentShader, RasterVertex, Target};
 use crate::scene::{MeshSource, NormalSettings, NormalSource, Scene, SceneError};
 use crate::shapes::Shape;
 use crate::vertex_buffer::{Triangulation, VertexBuffer};
@@ -358,7 +359,11 @@ impl Renderer {
             self.world_nrm.push(r * *n);
             self.clip.push(c);
             self.outcodes.push(code);
-            let s = if code == 0 { project(c, w, h) } else { [0.0; 4] };
+            let s = if code == 0 {
+                project(c, w, h)
+            } else {
+                [0.0; 4]
+            };
             self.screen.push(s);
             self.fixed.push(snap_xy(s[0], s[1]));
         }
@@ -415,6 +420,8 @@ impl DrawContext<'_> {
     ) -> u64 {
         let mut shaded = 0u64;
         let (w, h) = self.size;
+        let mut batch = Batch::default();
+        let mut last_shader = None;
         for (t, tri) in self.tris.iter().enumerate() {
             let codes = tri.map(|v| self.outcodes[v as usize]);
             if codes[0] & codes[1] & codes[2] != 0 {
@@ -452,7 +459,9 @@ impl DrawContext<'_> {
                     &cov,
                     [&rv[0], &rv[1], &rv[2]],
                     &shader,
+                    &mut batch,
                 ));
+                last_shader = Some(shader);
                 continue;
             }
             let shader = shader_for(t);
@@ -487,13 +496,17 @@ impl DrawContext<'_> {
                 };
             }
             for i in 1..poly.len - 1 {
-                shaded += u64::from(draw_triangle::<N, PERSP, S>(
-                    target,
-                    [&rv[0], &rv[i], &rv[i + 1]],
-                    self.cull,
-                    &shader,
-                ));
+                let tri = [&rv[0], &rv[i], &rv[i + 1]];
+                let p = tri.map(|v| snap_xy(v.x, v.y));
+                if let Some(cov) = Coverage::new(p, self.cull, target.width, target.height) {
+                    shaded +=
+                        u64::from(fill::<N, PERSP, S>(target, &cov, tri, &shader, &mut batch));
+                }
             }
+            last_shader = Some(shader);
+        }
+        if let Some(shader) = last_shader {
+            batch.flush(target.color, &shader);
         }
         shaded
     }
@@ -531,11 +544,32 @@ struct PerPixel<'a> {
 }
 
 impl FragmentShader<6> for PerPixel<'_> {
+    const BATCH: bool = true;
+
     #[inline(always)]
     fn shade(&self, v: &[f32; 6]) -> u32 {
         let n = Vec3::new(v[0], v[1], v[2]).normalize_or_zero();
         let c = self.lighting.shade(n, Vec3::new(v[3], v[4], v[5]));
         self.enc.pack(c.x, c.y, c.z)
+    }
+
+    #[inline(always)]
+    fn shade4(&self, v: &[[f32; 6]; 4]) -> [u32; 4] {
+        let lane = |j: usize| F4([v[0][j], v[1][j], v[2][j], v[3][j]]);
+        let n = V4 {
+            x: lane(0),
+            y: lane(1),
+            z: lane(2),
+        }
+        .normalize_or_zero();
+        let p = V4 {
+            x: lane(3),
+            y: lane(4),
+            z: lane(5),
+        };
+        let c = self.lighting.shade4(n, p);
+        let px = |k: usize| self.enc.pack(c.x.0[k], c.y.0[k], c.z.0[k]);
+        [px(0), px(1), px(2), px(3)]
     }
 }
 
