@@ -111,6 +111,32 @@ impl Viewer {
         Ok(())
     }
 
+    /// Renders only the Gouraud and Phong panels (the benchmark's unit of work).
+    #[wasm_bindgen(js_name = renderPanels)]
+    pub fn render_panels(&mut self) -> Result<(), JsValue> {
+        self.bench.render_panels(&self.scene).map_err(js_error)?;
+        Ok(())
+    }
+
+    /// Loads the fixed benchmark scene (shared/peers/SCENE.md) at icosphere `level` and
+    /// panel size `width` x `height`.
+    #[wasm_bindgen(js_name = loadBenchScene)]
+    pub fn load_bench_scene(&mut self, level: u32, width: u32, height: u32) -> Result<(), JsValue> {
+        let scene = Scene::bench(level, width, height, 0);
+        scene.validate().map_err(js_error)?;
+        self.scene = scene;
+        Ok(())
+    }
+
+    /// Sets the mesh's rotation to `deg` degrees about +y (a turntable position).
+    #[wasm_bindgen(js_name = setTurntable)]
+    pub fn set_turntable(&mut self, deg: f32) {
+        if deg.is_finite() {
+            self.scene
+                .set_rotation(crate::scene::axis_angle(glam::Vec3::Y, deg));
+        }
+    }
+
     /// Address in wasm memory of a panel's RGBA bytes: 0 Gouraud, 1 Phong, 2 difference,
     /// 3 exact reference (drawn only when the difference view compares against it).
     #[wasm_bindgen(js_name = panelPtr)]
