@@ -58,20 +58,25 @@ pub fn encode_srgb8_reference(l: f32) -> u8 {
 /// Linear-light thresholds: `t[b]` is the smallest f32 whose reference byte is `b` (b >= 1).
 struct Thresholds {
     t: [f32; 256],
+    /// `next[b]` = `t[b + 1]`, infinity for 255: the threshold that would raise byte `b`.
+    next: [f32; 256],
     /// For each bucket of the linear range (by f32 bit pattern, see `bucket`), the byte
-    /// of the bucket's lower end; the search then walks up at most a few thresholds.
+    /// of the bucket's lower end; one comparison with `next` then finishes the search.
     start: [u8; BUCKETS],
 }
 
-const BUCKETS: usize = 1024;
+/// Buckets: 256 per binade over the 12 binades [2^-12, 1), so each bucket spans at most
+/// 0.4 % of its value, less than the narrowest gap between two byte thresholds (about 0.9 %
+/// near 1.0): a bucket holds at most one threshold and the search is a single comparison
+/// (checked when the tables are built and in tests/color.rs).
+const BUCKETS: usize = 12 * 256;
 
-/// Maps a linear value in (0, 1] to a bucket by the top bits of its f32 representation.
+/// Maps a linear value in (0, 1) to a bucket by the top bits of its f32 representation.
 /// Values below 2^-12 (bytes 0..=3 region) fall into bucket 0.
 #[inline(always)]
 fn bucket(l: f32) -> usize {
-    // Exponents -12..=0 (13 binades) times 64 mantissa steps = 832 buckets used.
     let bits = l.to_bits();
-    let b = bits.saturating_sub(0x3980_0000) >> 17; // 0x3980_0000 = 2^-12
+    let b = bits.saturating_sub(0x3980_0000) >> 15; // 0x3980_0000 = 2^-12
     (b as usize).min(BUCKETS - 1)
 }
 
@@ -94,12 +99,35 @@ fn thresholds() -> &'static Thresholds {
         }
         let mut start = [0u8; BUCKETS];
         for (i, s) in start.iter_mut().enumerate() {
-            let lower = f32::from_bits(0x3980_0000 + ((i as u32) << 17));
-            let lower = if i == 0 { 0.0 } else { lower };
-            *s = encode_srgb8_reference(lower);
+            *s = encode_srgb8_reference(bucket_lower(i));
         }
-        Thresholds { t, start }
+        let mut next = [f32::INFINITY; 256];
+        next[..255].copy_from_slice(&t[1..]);
+        Thresholds { t, next, start }
     })
+}
+
+/// The lowest value of bucket `i`.
+fn bucket_lower(i: usize) -> f32 {
+    if i == 0 {
+        0.0
+    } else {
+        f32::from_bits(0x3980_0000 + ((i as u32) << 15))
+    }
+}
+
+/// The most byte thresholds lying strictly inside one bucket of the encoder's table; the
+/// single-comparison search is exact only while this is at most 1.
+pub fn max_thresholds_per_bucket() -> usize {
+    let th = thresholds();
+    let mut counts = vec![0usize; BUCKETS];
+    for &t in &th.t[1..] {
+        let i = bucket(t);
+        if t > bucket_lower(i) {
+            counts[i] += 1;
+        }
+    }
+    counts.into_iter().max().unwrap_or(0)
 }
 
 /// Encodes linear light to an 8-bit sRGB byte, exactly as [`encode_srgb8_reference`] does,
@@ -118,11 +146,9 @@ fn encode_with(th: &Thresholds, l: f32) -> u8 {
     if l >= 1.0 {
         return 255;
     }
-    let mut b = th.start[bucket(l)] as usize;
-    while b < 255 && l >= th.t[b + 1] {
-        b += 1;
-    }
-    b as u8
+    let b = th.start[bucket(l)] as usize;
+    // At most one threshold lies in a bucket (see `BUCKETS`), so one comparison finishes.
+    (b + usize::from(l >= th.next[b])) as u8
 }
 
 /// A handle to the encoder tables, for hot loops that encode many pixels: it avoids the

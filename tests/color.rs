@@ -65,6 +65,9 @@ fn table_encoder_agrees_with_the_reference() {
             "byte {b} starts too late"
         );
     }
+    // The single-comparison search relies on at most one threshold per table bucket.
+    assert_eq!(twinshade::color::max_thresholds_per_bucket(), 1);
+    assert_eq!(encode_srgb8(0.9999999), 255);
     assert_eq!(encode_srgb8(f32::NAN), 0);
     assert_eq!(encode_srgb8(-1.0), 0);
     assert_eq!(encode_srgb8(7.0), 255);
