@@ -281,10 +281,9 @@ impl Lighting {
             } else {
                 n.scale(ndl * 2.0).sub(l).dot(v)
             };
-            let shininess = self.shininess;
             let spec = F4::select(
                 s.gt(0.0),
-                s.map(|x| specular_power(x, shininess)),
+                specular_power4(s, self.shininess),
                 F4::splat(0.0),
             );
             let lit = ndl.gt(0.0);
@@ -343,6 +342,29 @@ pub fn specular_power(x: f32, n: f32) -> f32 {
     }
     if frac > 0.0 {
         result *= exp2_poly(frac * log2_poly(x));
+    }
+    result
+}
+
+/// [`specular_power`] in four lanes: the same steps, lane by lane (the exponent is shared).
+#[inline(always)]
+pub fn specular_power4(x: F4, n: f32) -> F4 {
+    let whole = n as u32;
+    let frac = n - whole as f32;
+    let mut result = F4::splat(1.0);
+    let mut base = x;
+    let mut e = whole;
+    while e > 0 {
+        if e & 1 == 1 {
+            result = result * base;
+        }
+        e >>= 1;
+        if e > 0 {
+            base = base * base;
+        }
+    }
+    if frac > 0.0 {
+        result = result * x.map(|v| exp2_poly(frac * log2_poly(v)));
     }
     result
 }
