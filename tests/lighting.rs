@@ -56,10 +56,17 @@ fn four_lane_lighting_is_bit_identical_to_scalar() {
         }
         scene.material.shininess = 37.5;
         let frame = scene.camera.frame(4.0 / 3.0);
-        let l = Lighting::new(&scene.lights, &scene.ambient_light, &scene.material, model, &frame)
-            .expect("lighting");
+        let l = Lighting::new(
+            &scene.lights,
+            &scene.ambient_light,
+            &scene.material,
+            model,
+            &frame,
+        )
+        .expect("lighting");
         for _ in 0..20_000 {
-            let n: [Vec3; 4] = [0; 4].map(|_| Vec3::new(next(), next(), next()).normalize_or_zero());
+            let n: [Vec3; 4] =
+                [0; 4].map(|_| Vec3::new(next(), next(), next()).normalize_or_zero());
             let p: [Vec3; 4] = [0; 4].map(|_| Vec3::new(next(), next(), next()));
             let lanes = |v: &[Vec3; 4]| V4 {
                 x: F4(v.map(|v| v.x)),
@@ -70,7 +77,13 @@ fn four_lane_lighting_is_bit_identical_to_scalar() {
             for k in 0..4 {
                 let want = l.shade(n[k], p[k]);
                 let lane = Vec3::new(got.x.0[k], got.y.0[k], got.z.0[k]);
-                assert_eq!(lane.to_array().map(f32::to_bits), want.to_array().map(f32::to_bits), "{model:?} ortho {ortho}: n {} p {}", n[k], p[k]);
+                assert_eq!(
+                    lane.to_array().map(f32::to_bits),
+                    want.to_array().map(f32::to_bits),
+                    "{model:?} ortho {ortho}: n {} p {}",
+                    n[k],
+                    p[k]
+                );
             }
         }
     }
