@@ -109,26 +109,6 @@ impl V4 {
         self.x * o.x + self.y * o.y + self.z * o.z
     }
 
-    /// Lane-wise `self + o`.
-    #[inline(always)]
-    pub fn add(self, o: V4) -> V4 {
-        V4 {
-            x: self.x + o.x,
-            y: self.y + o.y,
-            z: self.z + o.z,
-        }
-    }
-
-    /// Lane-wise `self - o`.
-    #[inline(always)]
-    pub fn sub(self, o: V4) -> V4 {
-        V4 {
-            x: self.x - o.x,
-            y: self.y - o.y,
-            z: self.z - o.z,
-        }
-    }
-
     /// Each lane's vector times that lane's scalar.
     #[inline(always)]
     pub fn scale(self, s: F4) -> V4 {
@@ -166,6 +146,30 @@ impl V4 {
             x: F4::select(ok, self.x * rcp, zero),
             y: F4::select(ok, self.y * rcp, zero),
             z: F4::select(ok, self.z * rcp, zero),
+        }
+    }
+}
+
+impl Add for V4 {
+    type Output = V4;
+    #[inline(always)]
+    fn add(self, o: V4) -> V4 {
+        V4 {
+            x: self.x + o.x,
+            y: self.y + o.y,
+            z: self.z + o.z,
+        }
+    }
+}
+
+impl Sub for V4 {
+    type Output = V4;
+    #[inline(always)]
+    fn sub(self, o: V4) -> V4 {
+        V4 {
+            x: self.x - o.x,
+            y: self.y - o.y,
+            z: self.z - o.z,
         }
     }
 }

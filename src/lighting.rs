@@ -256,12 +256,12 @@ impl Lighting {
         let v = if self.orthographic {
             V4::splat(self.toward_eye)
         } else {
-            V4::splat(self.eye).sub(p).normalize_or_zero()
+            (V4::splat(self.eye) - p).normalize_or_zero()
         };
         let mut col = V4::splat(self.constant);
         for light in &self.lights[..self.count] {
             let (l, c) = if light.point {
-                let d = V4::splat(light.vector).sub(p);
+                let d = V4::splat(light.vector) - p;
                 let d2 = d.dot(d);
                 let att = F4::splat(1.0) / (d2 * light.falloff + 1.0);
                 (
@@ -277,9 +277,9 @@ impl Lighting {
             };
             let ndl = n.dot(l);
             let s = if self.blinn {
-                n.dot(l.add(v).normalize_or_zero())
+                n.dot((l + v).normalize_or_zero())
             } else {
-                n.scale(ndl * 2.0).sub(l).dot(v)
+                (n.scale(ndl * 2.0) - l).dot(v)
             };
             let spec = F4::select(
                 s.gt(0.0),
@@ -381,7 +381,7 @@ fn log2_poly(x: f32) -> f32 {
     // 2/ln2 * (t + t^3/3 + t^5/5 + t^7/7 + t^9/9)
     let series =
         t * (1.0 + t2 * (1.0 / 3.0 + t2 * (1.0 / 5.0 + t2 * (1.0 / 7.0 + t2 * (1.0 / 9.0)))));
-    exponent as f32 + series * 2.885_390_1
+    exponent as f32 + series * (2.0 * std::f32::consts::LOG2_E)
 }
 
 /// 2^y for y <= 0 (the specular case): integer part into the exponent bits, fractional part
