@@ -49,8 +49,10 @@ fn four_lane_lighting_is_bit_identical_to_scalar() {
         (ReflectionModel::BlinnPhong, true),
         (ReflectionModel::Phong, true),
     ] {
-        let mut scene = Scene::default();
-        scene.model = model;
+        let mut scene = Scene {
+            model,
+            ..Scene::default()
+        };
         if ortho {
             scene.camera.projection = twinshade::camera::Projection::Orthographic;
         }
