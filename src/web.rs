@@ -87,6 +87,41 @@ impl Viewer {
         Ok(())
     }
 
+    /// The current scene as link text for the URL fragment (see `share`).
+    #[wasm_bindgen(js_name = shareFragment)]
+    pub fn share_fragment(&self) -> String {
+        crate::share::encode(&self.scene)
+    }
+
+    /// Replaces the scene with one read from link text; on failure the scene is kept and a
+    /// JavaScript `Error` says what is wrong with the link.
+    #[wasm_bindgen(js_name = setSceneFromLink)]
+    pub fn set_scene_from_link(&mut self, text: &str) -> Result<(), JsValue> {
+        self.scene = crate::share::decode(text, self.scene.panel).map_err(js_error)?;
+        Ok(())
+    }
+
+    /// The presets as `[{id, title, caption}]`.
+    pub fn presets() -> Result<JsValue, JsValue> {
+        let list: Vec<[&str; 3]> = crate::presets::presets()
+            .iter()
+            .map(|p| [p.id, p.title, p.caption])
+            .collect();
+        let ser = serde_wasm_bindgen::Serializer::json_compatible();
+        serde::Serialize::serialize(&list, &ser).map_err(js_error)
+    }
+
+    /// Loads a preset by id, keeping the panel size.
+    #[wasm_bindgen(js_name = loadPreset)]
+    pub fn load_preset(&mut self, id: &str) -> Result<(), JsValue> {
+        let preset =
+            crate::presets::preset(id).ok_or_else(|| js_error(format!("no preset '{id}'")))?;
+        let panel = self.scene.panel;
+        self.scene = preset.scene;
+        self.scene.panel = panel;
+        Ok(())
+    }
+
     /// Sets the panel size in device pixels.
     #[wasm_bindgen(js_name = setPanelSize)]
     pub fn set_panel_size(&mut self, width: u32, height: u32) -> Result<(), JsValue> {

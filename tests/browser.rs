@@ -351,5 +351,83 @@ async fn page_end_to_end() {
     assert_same_as_native(&c, "after a drag and a control change").await;
     let errors = eval(&c, "return window.twinshadeErrors").await;
     assert_eq!(errors, json!([]), "console errors while using the page");
+
+    // The address carries the scene: opened in a fresh page it gives the same pixels.
+    let before: Vec<Vec<u8>> = vec![canvas(&c, "gouraud").await.2, canvas(&c, "phong").await.2];
+    let href = eval(&c, "return location.href").await;
+    let href = href.as_str().expect("href").to_string();
+    assert!(
+        href.contains("#s=1."),
+        "the address holds the scene: {href}"
+    );
+    c.goto("about:blank").await.expect("leave");
+    c.goto(&href).await.expect("open the link");
+    wait_ready(&c).await;
+    for (i, name) in ["gouraud", "phong"].iter().enumerate() {
+        assert!(
+            canvas(&c, name).await.2 == before[i],
+            "{name}: the link does not reproduce the pixels"
+        );
+    }
+
+    // A damaged link: a message, and the default scene.
+    c.goto("about:blank").await.expect("leave");
+    c.goto(&format!("{page}#s=1.eJyrVkrLz1eyUkpKLFKqBQAd"))
+        .await
+        .expect("open a damaged link");
+    wait_ready(&c).await;
+    let problem = eval(
+        &c,
+        "const p = document.getElementById('problem'); return [p.hidden, p.textContent]",
+    )
+    .await;
+    assert_eq!(problem[0], json!(false), "a message is shown");
+    assert!(
+        problem[1]
+            .as_str()
+            .is_some_and(|t| t.contains("cannot be read")),
+        "message: {problem}"
+    );
+    let json = eval(&c, "return window.twinshade.sceneJson()").await;
+    let shown = Scene::from_json(json.as_str().expect("scene")).expect("valid");
+    let mut default = Scene::default();
+    default.panel = shown.panel;
+    assert_eq!(
+        shown, default,
+        "a damaged link falls back to the default scene"
+    );
+
+    // Every preset loads from the menu, with its caption.
+    for p in twinshade::presets::presets() {
+        c.find(Locator::Css("#preset"))
+            .await
+            .expect("preset menu")
+            .select_by_value(p.id)
+            .await
+            .expect("choose a preset");
+        let caption = eval(
+            &c,
+            "return document.getElementById('preset-caption').textContent",
+        )
+        .await;
+        assert_eq!(caption.as_str(), Some(p.caption), "{}: caption", p.id);
+        let json = eval(&c, "return window.twinshade.sceneJson()").await;
+        let shown = Scene::from_json(json.as_str().expect("scene")).expect("valid");
+        assert_eq!(
+            shown,
+            Scene {
+                panel: shown.panel,
+                ..p.scene.clone()
+            },
+            "{}: scene",
+            p.id
+        );
+    }
+    let errors = eval(&c, "return window.twinshadeErrors").await;
+    assert_eq!(
+        errors,
+        json!([]),
+        "console errors while following links and presets"
+    );
     c.close().await.expect("close the browser");
 }

@@ -44,6 +44,8 @@ function showProblem(message) {
 function editScene(edit) {
   const scene = viewer.scene();
   edit(scene);
+  $("preset").value = "";
+  $("preset-caption").textContent = "";
   try {
     viewer.setScene(scene);
     showProblem("");
@@ -82,6 +84,7 @@ function frame() {
     canvas.getContext("2d").putImageData(new ImageData(bytes, w, h), 0, 0);
   });
   lastFrameMs = performance.now() - t0;
+  updateLink();
   showStats();
   showMetrics();
   drawLegend();
@@ -89,6 +92,78 @@ function frame() {
 }
 
 const fmt = (n) => n.toLocaleString("en-US");
+
+/** Keeps the address in step with the scene, without adding history entries. */
+let lastLink = "";
+function updateLink() {
+  const link = `#s=${viewer.shareFragment()}`;
+  if (link !== lastLink) {
+    lastLink = link;
+    history.replaceState(null, "", link);
+  }
+}
+
+async function copyLink() {
+  const status = $("copy-status");
+  try {
+    await navigator.clipboard.writeText(location.href);
+    status.textContent = "Link copied.";
+  } catch {
+    // No clipboard permission (e.g. an insecure context): offer the link to copy by hand.
+    window.prompt("Copy this link:", location.href);
+    status.textContent = "";
+  }
+}
+
+let presetList = [];
+function choosePreset(id) {
+  const p = presetList.find((x) => x.id === id);
+  if (!p) return;
+  try {
+    viewer.loadPreset(id);
+    showProblem("");
+  } catch (e) {
+    showProblem(`Cannot load the preset: ${e.message || e}`);
+    return;
+  }
+  $("preset").value = id;
+  $("preset-caption").textContent = p.caption;
+  $("caption").textContent = `${p.title}. ${p.caption}`;
+  syncControls();
+  requestRender();
+}
+
+function setPresenting(on) {
+  document.body.dataset.present = on ? "1" : "";
+  $("caption").hidden = !on;
+  $("present").setAttribute("aria-pressed", String(on));
+  if (on && !$("preset").value && presetList.length) choosePreset(presetList[0].id);
+}
+
+function bindPresets() {
+  presetList = Viewer.presets().map(([id, title, caption]) => ({ id, title, caption }));
+  for (const p of presetList) {
+    const o = document.createElement("option");
+    o.value = p.id;
+    o.textContent = p.title;
+    $("preset").append(o);
+  }
+  $("preset").addEventListener("change", () => choosePreset($("preset").value));
+  $("present").addEventListener("click", () => setPresenting(document.body.dataset.present !== "1"));
+  document.addEventListener("keydown", (e) => {
+    if (document.body.dataset.present !== "1") return;
+    if (e.target instanceof HTMLCanvasElement || e.target.closest?.("select, input")) return;
+    const i = presetList.findIndex((p) => p.id === $("preset").value);
+    if (e.key === "ArrowRight" || e.key === "ArrowLeft") {
+      const step = e.key === "ArrowRight" ? 1 : -1;
+      const next = (i + step + presetList.length) % presetList.length;
+      choosePreset(presetList[next].id);
+      e.preventDefault();
+    } else if (e.key === "Escape") {
+      setPresenting(false);
+    }
+  });
+}
 
 function showStats() {
   const r = viewer.report();
@@ -323,7 +398,18 @@ async function start() {
       c.style.width = `${+fixed[1] / (window.devicePixelRatio || 1)}px`;
     }
   }
+  // A scene in the link (#s=...) opens as it was shared; a damaged one is explained and the
+  // default scene shown instead.
+  if (location.hash.startsWith("#s=")) {
+    try {
+      viewer.setSceneFromLink(location.hash.slice(3));
+    } catch (e) {
+      showProblem(`${e.message || e}. Showing the default scene.`);
+    }
+  }
   bindControls();
+  bindPresets();
+  $("copy-link").addEventListener("click", copyLink);
   bindTurning();
   syncControls();
   fitPanels();

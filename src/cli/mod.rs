@@ -41,8 +41,11 @@ enum Command {
     /// Render the panels of a scene to PNG files.
     Render {
         /// Scene file (JSON); the built-in default scene when absent.
-        #[arg(long)]
+        #[arg(long, conflicts_with = "preset")]
         scene: Option<PathBuf>,
+        /// A built-in preset instead of a scene file (see `twinshade presets`).
+        #[arg(long)]
+        preset: Option<String>,
         /// Panel size, WIDTHxHEIGHT (overrides the scene's).
         #[arg(long, value_parser = parse_size)]
         size: Option<(u32, u32)>,
@@ -78,6 +81,8 @@ enum Command {
         #[arg(long, conflicts_with = "default")]
         file: Option<PathBuf>,
     },
+    /// List the built-in presets with their captions.
+    Presets,
     /// Write a self-contained static folder of the page (relative paths, any static host).
     BuildWeb {
         /// Output folder (created if missing).
@@ -127,10 +132,26 @@ fn run(command: Command) -> Result<(), String> {
         }
         Command::Render {
             scene,
+            preset,
             size,
             out_dir,
             metrics,
-        } => render(scene.as_deref(), size, &out_dir, metrics.as_deref()),
+        } => {
+            let scene = match (scene, preset) {
+                (Some(p), _) => load_scene(&p)?,
+                (None, Some(id)) => crate::presets::preset(&id)
+                    .map(|p| p.scene)
+                    .ok_or_else(|| format!("no preset '{id}' (see `twinshade presets`)"))?,
+                (None, None) => Scene::default(),
+            };
+            render(scene, size, &out_dir, metrics.as_deref())
+        }
+        Command::Presets => {
+            for p in crate::presets::presets() {
+                println!("{:22} {}\n{:22} {}", p.id, p.title, "", p.caption);
+            }
+            Ok(())
+        }
         Command::Compare {
             a,
             b,
@@ -163,15 +184,11 @@ fn load_scene(path: &Path) -> Result<Scene, String> {
 }
 
 fn render(
-    scene: Option<&Path>,
+    mut scene: Scene,
     size: Option<(u32, u32)>,
     out_dir: &Path,
     metrics: Option<&Path>,
 ) -> Result<(), String> {
-    let mut scene = match scene {
-        Some(p) => load_scene(p)?,
-        None => Scene::default(),
-    };
     if let Some((w, h)) = size {
         scene.panel.width = w;
         scene.panel.height = h;
