@@ -390,8 +390,10 @@ async fn page_end_to_end() {
     );
     let json = eval(&c, "return window.twinshade.sceneJson()").await;
     let shown = Scene::from_json(json.as_str().expect("scene")).expect("valid");
-    let mut default = Scene::default();
-    default.panel = shown.panel;
+    let default = Scene {
+        panel: shown.panel,
+        ..Scene::default()
+    };
     assert_eq!(
         shown, default,
         "a damaged link falls back to the default scene"
