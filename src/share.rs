@@ -85,7 +85,7 @@ pub fn encode(scene: &Scene) -> String {
 /// A message saying what is wrong: unknown format, damaged or truncated data, or a scene that
 /// does not validate.
 pub fn decode(text: &str, panel: crate::scene::PanelSize) -> Result<Scene, SceneError> {
-    let err = |m: &str| SceneError(format!("this link cannot be read: {m}"));
+    let err = |m: &str| SceneError(format!("This link cannot be read: {m}"));
     let text = text.trim_start_matches('#').trim_start_matches("s=");
     if text.len() > MAX_LINK {
         return Err(err("it is too long"));
@@ -107,11 +107,11 @@ pub fn decode(text: &str, panel: crate::scene::PanelSize) -> Result<Scene, Scene
     }
     let mut value = scene_value(&Scene::default());
     merge(&mut value, patch);
-    let mut scene: Scene =
-        serde_json::from_value(value).map_err(|e| SceneError(format!("this link's scene: {e}")))?;
+    let mut scene: Scene = serde_json::from_value(value)
+        .map_err(|e| SceneError(format!("This link's scene cannot be used: {e}")))?;
     scene.panel = panel;
     scene
         .validate()
-        .map_err(|e| SceneError(format!("this link's scene: {e}")))?;
+        .map_err(|e| SceneError(format!("This link's scene cannot be used: {e}")))?;
     Ok(scene)
 }

@@ -431,5 +431,36 @@ async fn page_end_to_end() {
         json!([]),
         "console errors while following links and presets"
     );
+
+    // Embed mode in a 480x320 frame: panels shown, no scrollbars, a link to the full page.
+    c.goto(&url).await.expect("open the page");
+    wait_ready(&c).await;
+    c.execute(
+        "const f = document.createElement('iframe');
+         f.src = 'index.html?embed'; f.width = 480; f.height = 320; f.id = 'embedded';
+         document.body.replaceChildren(f);",
+        vec![],
+    )
+    .await
+    .expect("frame the page");
+    c.enter_frame(0).await.expect("enter the frame");
+    wait_ready(&c).await;
+    let fit = eval(
+        &c,
+        "const e = document.documentElement;
+         const shown = [...document.querySelectorAll('canvas[data-panel]')]
+           .map((c) => c.getBoundingClientRect()).filter((r) => r.width > 40 && r.bottom <= innerHeight);
+         return [e.scrollWidth <= innerWidth, e.scrollHeight <= innerHeight, shown.length,
+                 document.getElementById('open-full').getAttribute('href')];",
+    )
+    .await;
+    assert_eq!(fit[0], json!(true), "embed: horizontal scrollbar: {fit}");
+    assert_eq!(fit[1], json!(true), "embed: vertical scrollbar: {fit}");
+    assert_eq!(fit[2], json!(3), "embed: all three panels visible: {fit}");
+    assert!(
+        fit[3].as_str().is_some_and(|h| !h.contains("embed")),
+        "embed: full-page link {fit}"
+    );
+    c.enter_parent_frame().await.expect("leave the frame");
     c.close().await.expect("close the browser");
 }

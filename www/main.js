@@ -100,6 +100,11 @@ function updateLink() {
   if (link !== lastLink) {
     lastLink = link;
     history.replaceState(null, "", link);
+    if (document.body.dataset.embed === "1") {
+      const full = new URL(location.href);
+      full.searchParams.delete("embed");
+      $("open-full").href = full.href;
+    }
   }
 }
 
@@ -216,7 +221,8 @@ function drawLegend() {
     ctx.fillStyle = "#ffffff";
     ctx.fillRect(Math.round(t * (c.width - 1)) - 1, 0, 2, c.height);
   }
-  $("legend-mark").textContent = `│ ${s.difference.threshold} just noticeable`;
+  const embed = document.body.dataset.embed === "1";
+  $("legend-mark").textContent = `│ ${s.difference.threshold}${embed ? "" : " just noticeable"}`;
   $("legend-mark").style.left = `${Math.min(1, t) * 100}%`;
   $("legend-mark").hidden = t > 1;
   $("legend-max").textContent = `${s.difference.scale_max} dE00`;
@@ -363,10 +369,16 @@ function bindTurning() {
 function fitPanels() {
   if (!fitToLayout) return;
   const box = $("panels").getBoundingClientRect();
-  const gap = 16;
+  const embed = document.body.dataset.embed === "1";
+  const gap = embed ? 4 : 16;
   const n = canvases.length;
-  const cssW = Math.max(64, Math.floor((box.width - gap * (n - 1)) / n));
-  const cssH = Math.max(48, Math.round((cssW * 3) / 4));
+  let cssW = Math.max(16, Math.floor((box.width - gap * (n - 1)) / n));
+  if (embed) {
+    // The frame's height bounds the panels too: leave room for captions, legend and link.
+    const spare = window.innerHeight - 70;
+    cssW = Math.max(16, Math.min(cssW, Math.floor((spare * 4) / 3)));
+  }
+  const cssH = Math.max(12, Math.round((cssW * 3) / 4));
   const dpr = window.devicePixelRatio || 1;
   const w = Math.min(4096, Math.round(cssW * dpr));
   const h = Math.min(4096, Math.round(cssH * dpr));
@@ -389,6 +401,12 @@ async function start() {
   wasm = await init();
   viewer = new Viewer();
   const q = new URLSearchParams(location.search);
+  if (q.has("embed")) {
+    document.body.dataset.embed = "1";
+    const full = new URL(location.href);
+    full.searchParams.delete("embed");
+    $("open-full").href = full.href;
+  }
   // ?size=WxH renders at a fixed panel size (for docs and tests) instead of fitting the layout.
   const fixed = /^(\d+)x(\d+)$/.exec(q.get("size") || "");
   if (fixed) {
