@@ -5,6 +5,8 @@
 //! system fonts).
 
 use crate::framebuffer::Framebuffer;
+use crate::measure::Comparer;
+use crate::workbench::FrameReport;
 use font8x8::BASIC_UNICODE;
 
 /// An RGBA8 image, rows top to bottom, no padding.
@@ -98,6 +100,109 @@ pub fn sheet(panels: &[(&str, &Framebuffer)]) -> Image {
         img.text(label, x, 8 + 4 * (2 - scale), scale, [232, 234, 240, 255]);
         img.blit(fb, x, LABEL_STRIP);
         x += fb.width() + GAP;
+    }
+    img
+}
+
+/// Text lines summarising a frame report for sheets (ASCII).
+pub fn metrics_lines(report: &FrameReport) -> Vec<String> {
+    let m = &report.metrics;
+    let name = |i: usize| format!("{:?}", report.pair[i]);
+    vec![
+        format!(
+            "{} vs {}: dE00 mean {:.2}  p95 {:.2}  max {:.2}   dE*ab mean {:.2}  p95 {:.2}  max {:.2}",
+            name(0),
+            name(1),
+            m.de00.mean,
+            m.de00.p95,
+            m.de00.max,
+            m.de76.mean,
+            m.de76.p95,
+            m.de76.max
+        ),
+        format!(
+            "{:.1}% of {} pixels above {} dE00; {} silhouette pixels; peak Y {:.3} vs {:.3} (ratio {:.2})",
+            100.0 * m.share_above_threshold,
+            m.covered_pixels,
+            m.threshold_de00,
+            m.silhouette_mismatch_pixels,
+            m.peak_luminance[0],
+            m.peak_luminance[1],
+            m.peak_ratio
+        ),
+        format!(
+            "Lighting evaluations per frame: {} per vertex vs {} per pixel ({} triangles, {}x{} px)",
+            report.lighting.gouraud_vertices,
+            report.lighting.phong_pixels,
+            report.triangles,
+            report.width,
+            report.height
+        ),
+    ]
+}
+
+/// The report sheet the page exports and `twinshade render` writes: the labelled panels, the
+/// difference colour scale with its threshold mark, the key metrics and the scene's link.
+/// `panels` are Gouraud, Phong and the difference image, in that order.
+pub fn report_sheet(
+    panels: &[(&str, &Framebuffer)],
+    report: &FrameReport,
+    scale_max: f32,
+    link: &str,
+) -> Image {
+    let base = sheet(panels);
+    let text_w = 8;
+    let width = base.width;
+    let chars_per_line = ((width - 2 * GAP) / text_w).max(16);
+    let mut lines = metrics_lines(report);
+    let link_line = format!("Scene: {link}");
+    let link_chars: Vec<char> = link_line.chars().collect();
+    for chunk in link_chars.chunks(chars_per_line) {
+        lines.push(chunk.iter().collect());
+    }
+    let legend_h = 28;
+    let height = base.height + legend_h + lines.len() * 12 + GAP;
+    let mut img = Image::filled(width, height, [18, 19, 23, 255]);
+    img.rgba[..base.rgba.len()].copy_from_slice(&base.rgba);
+    // The colour scale under the difference panel (the last one).
+    if let Some((_, diff)) = panels.last() {
+        let x0 = width - GAP - diff.width();
+        let y0 = base.height;
+        let mut comparer = Comparer::new();
+        for x in 0..diff.width() {
+            let de = scale_max * x as f32 / (diff.width().max(2) - 1) as f32;
+            let c = comparer.map_color(de, scale_max);
+            for y in y0..y0 + 10 {
+                img.put(x0 + x, y, [c[0], c[1], c[2], 255]);
+            }
+        }
+        let t = report.metrics.threshold_de00 as f32 / scale_max;
+        if t <= 1.0 {
+            let mx = x0 + (t * (diff.width() - 1) as f32) as usize;
+            for y in y0..y0 + 12 {
+                img.put(mx, y, [255, 255, 255, 255]);
+            }
+        }
+        let grey = [170, 174, 184, 255];
+        img.text("0", x0, y0 + 14, 1, grey);
+        let max = format!("{scale_max} dE00");
+        img.text(
+            &max,
+            x0 + diff.width().saturating_sub(max.len() * 8),
+            y0 + 14,
+            1,
+            grey,
+        );
+        let mark = format!("| {} noticeable", report.metrics.threshold_de00);
+        if t <= 1.0 {
+            let mx = x0 + (t * (diff.width() - 1) as f32) as usize;
+            img.text(&mark, mx, y0 + 14, 1, grey);
+        }
+    }
+    let mut y = base.height + legend_h;
+    for line in &lines {
+        img.text(line, GAP, y, 1, [232, 234, 240, 255]);
+        y += 12;
     }
     img
 }

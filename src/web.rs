@@ -222,6 +222,26 @@ impl Viewer {
         self.scene.panel.height
     }
 
+    /// The report sheet of the last frame as `{width, height, rgba}` (RGBA bytes).
+    #[wasm_bindgen(js_name = reportSheet)]
+    pub fn report_sheet(&self) -> Result<JsValue, JsValue> {
+        let img = self.bench.report_sheet(&self.scene);
+        let out = js_sys::Object::new();
+        let set = |k: &str, v: JsValue| js_sys::Reflect::set(&out, &JsValue::from_str(k), &v);
+        set("width", JsValue::from(img.width as u32))?;
+        set("height", JsValue::from(img.height as u32))?;
+        set("rgba", js_sys::Uint8Array::from(img.rgba.as_slice()).into())?;
+        Ok(out.into())
+    }
+
+    /// The last frame's metrics as CSV (header and one row), with the scene's link.
+    #[wasm_bindgen(js_name = reportCsv)]
+    pub fn report_csv(&self) -> String {
+        self.bench
+            .report()
+            .to_csv(&crate::share::encode(&self.scene))
+    }
+
     /// The last frame's report: metrics of the compared pair and the lighting cost.
     pub fn report(&self) -> Result<JsValue, JsValue> {
         let ser = serde_wasm_bindgen::Serializer::json_compatible();

@@ -189,6 +189,72 @@ impl Workbench {
     }
 }
 
+impl FrameReport {
+    /// The report as two CSV lines: a header and the values.
+    pub fn to_csv(&self, link: &str) -> String {
+        let m = &self.metrics;
+        let header =
+            "pair_a,pair_b,width,height,triangles,covered_pixels,silhouette_mismatch_pixels,\
+de00_mean,de00_p95,de00_max,de76_mean,de76_p95,de76_max,threshold_de00,share_above_threshold,\
+peak_luminance_a,peak_luminance_b,peak_ratio,lighting_gouraud_vertices,lighting_phong_pixels,\
+lighting_exact_pixels,link";
+        format!(
+            "{header}\n{:?},{:?},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{link}\n",
+            self.pair[0],
+            self.pair[1],
+            self.width,
+            self.height,
+            self.triangles,
+            m.covered_pixels,
+            m.silhouette_mismatch_pixels,
+            m.de00.mean,
+            m.de00.p95,
+            m.de00.max,
+            m.de76.mean,
+            m.de76.p95,
+            m.de76.max,
+            m.threshold_de00,
+            m.share_above_threshold,
+            m.peak_luminance[0],
+            m.peak_luminance[1],
+            m.peak_ratio,
+            self.lighting.gouraud_vertices,
+            self.lighting.phong_pixels,
+            self.lighting.exact_pixels,
+        )
+    }
+}
+
+/// The panel labels of sheets: Gouraud, Phong and the difference.
+pub fn panel_labels(report: &FrameReport, scale_max: f32) -> [String; 3] {
+    [
+        ShadingMode::Gouraud.label().to_string(),
+        ShadingMode::Phong.label().to_string(),
+        format!(
+            "dE00 {:?} vs {:?} (0-{scale_max})",
+            report.pair[0], report.pair[1]
+        ),
+    ]
+}
+
+impl Workbench {
+    /// The report sheet of the last frame of `scene` (see [`crate::sheet::report_sheet`]).
+    pub fn report_sheet(&self, scene: &Scene) -> crate::sheet::Image {
+        let labels = panel_labels(&self.report, scene.difference.scale_max);
+        let panels = [
+            (labels[0].as_str(), &self.gouraud),
+            (labels[1].as_str(), &self.phong),
+            (labels[2].as_str(), &self.difference),
+        ];
+        crate::sheet::report_sheet(
+            &panels,
+            &self.report,
+            scene.difference.scale_max,
+            &crate::share::encode(scene),
+        )
+    }
+}
+
 /// The workbench's panels.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum Panel {

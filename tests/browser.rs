@@ -6,7 +6,9 @@
 //! `TWINSHADE_REQUIRE_BROWSER=1` (set by .ci/run) a missing browser is a failure.
 
 use base64::Engine;
-use fantoccini::actions::{InputSource, MouseActions, PointerAction, MOUSE_BUTTON_LEFT};
+use fantoccini::actions::{
+    InputSource, KeyAction, KeyActions, MouseActions, PointerAction, MOUSE_BUTTON_LEFT,
+};
 use fantoccini::{Client, ClientBuilder, Locator};
 use serde_json::{json, Value};
 use std::io::{BufRead, BufReader};
@@ -352,6 +354,33 @@ async fn page_end_to_end() {
     let errors = eval(&c, "return window.twinshadeErrors").await;
     assert_eq!(errors, json!([]), "console errors while using the page");
 
+    // The exported sheet decodes and is exactly the native sheet for the same scene.
+    let sheet = eval(&c, "return window.twinshade.sheetDataUrl()").await;
+    let png = base64::engine::general_purpose::STANDARD
+        .decode(
+            sheet[2]
+                .as_str()
+                .and_then(|u| u.strip_prefix("data:image/png;base64,"))
+                .expect("a PNG data URL"),
+        )
+        .expect("base64");
+    let file = std::env::temp_dir().join(format!("twinshade-sheet-{}.png", std::process::id()));
+    std::fs::write(&file, &png).expect("write the sheet");
+    let (sw, sh, rgba) = twinshade::cli::read_png(&file).expect("the sheet decodes");
+    let _ = std::fs::remove_file(&file);
+    assert_eq!(json!([sw, sh]), json!([sheet[0], sheet[1]]), "sheet size");
+    let (scene, bench) = native_render(&c).await;
+    let native = bench.report_sheet(&scene);
+    assert_eq!(
+        (sw, sh),
+        (native.width, native.height),
+        "sheet size vs native"
+    );
+    assert!(
+        rgba == native.rgba,
+        "the exported sheet differs from the native sheet"
+    );
+
     // The address carries the scene: opened in a fresh page it gives the same pixels.
     let before: Vec<Vec<u8>> = vec![canvas(&c, "gouraud").await.2, canvas(&c, "phong").await.2];
     let href = eval(&c, "return location.href").await;
@@ -431,6 +460,41 @@ async fn page_end_to_end() {
         json!([]),
         "console errors while following links and presets"
     );
+
+    // Keyboard only: Tab reaches every control (and the panels, which turn with arrow keys).
+    c.goto(&page).await.expect("open the page");
+    wait_ready(&c).await;
+    let wanted = eval(
+        &c,
+        "return [...document.querySelectorAll('select, input, button, canvas[data-panel]')]
+           .map((e) => e.id || e.dataset.panel)",
+    )
+    .await;
+    let wanted: Vec<String> = wanted
+        .as_array()
+        .expect("list")
+        .iter()
+        .filter_map(|v| v.as_str().map(String::from))
+        .collect();
+    let mut reached = std::collections::BTreeSet::new();
+    for _ in 0..wanted.len() + 10 {
+        // A key action, not "element send keys" (which sets the value of colour inputs
+        // instead of typing into them).
+        let tab = KeyActions::new("keyboard".into())
+            .then(KeyAction::Down { value: '\u{E004}' })
+            .then(KeyAction::Up { value: '\u{E004}' });
+        c.perform_actions(tab).await.expect("press Tab");
+        let id = eval(
+            &c,
+            "const e = document.activeElement; return e.id || e.dataset.panel || ''",
+        )
+        .await;
+        if let Some(id) = id.as_str() {
+            reached.insert(id.to_string());
+        }
+    }
+    let missing: Vec<&String> = wanted.iter().filter(|w| !reached.contains(*w)).collect();
+    assert!(missing.is_empty(), "not reachable with Tab: {missing:?}");
 
     // Embed mode in a 480x320 frame: panels shown, no scrollbars, a link to the full page.
     c.goto(&url).await.expect("open the page");

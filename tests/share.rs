@@ -186,6 +186,16 @@ fn every_preset_is_valid_and_shows_a_difference() {
             p.id,
             m.de00.max
         );
+        // The CSV export has as many values as columns.
+        let csv = report.to_csv(&encode(&scene));
+        let rows: Vec<&str> = csv.lines().collect();
+        assert_eq!(rows.len(), 2, "{}: header and one row", p.id);
+        assert_eq!(
+            rows[0].split(',').count(),
+            rows[1].split(',').count(),
+            "{}: CSV columns",
+            p.id
+        );
         // Presets travel through links too.
         assert_eq!(decode(&encode(&scene), PANEL).expect("preset link"), scene);
     }

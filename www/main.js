@@ -120,6 +120,37 @@ async function copyLink() {
   }
 }
 
+/** Offers a file for download; nothing leaves the machine. */
+function download(name, blob) {
+  const a = document.createElement("a");
+  a.href = URL.createObjectURL(blob);
+  a.download = name;
+  a.click();
+  setTimeout(() => URL.revokeObjectURL(a.href), 10000);
+}
+
+/** The report sheet (panels, labels, legend, metrics, link) drawn by the wasm module. */
+function sheetCanvas() {
+  const s = viewer.reportSheet();
+  const c = document.createElement("canvas");
+  c.width = s.width;
+  c.height = s.height;
+  const bytes = new Uint8ClampedArray(s.rgba.buffer, s.rgba.byteOffset, s.rgba.length);
+  c.getContext("2d").putImageData(new ImageData(bytes, s.width, s.height), 0, 0);
+  return c;
+}
+
+function bindExports() {
+  $("save-sheet").addEventListener("click", () =>
+    sheetCanvas().toBlob((b) => download("twinshade-sheet.png", b), "image/png"));
+  $("save-json").addEventListener("click", () => {
+    const doc = { link: location.href, report: viewer.report(), scene: JSON.parse(viewer.sceneJson()) };
+    download("twinshade-metrics.json", new Blob([JSON.stringify(doc, null, 2)], { type: "application/json" }));
+  });
+  $("save-csv").addEventListener("click", () =>
+    download("twinshade-metrics.csv", new Blob([viewer.reportCsv()], { type: "text/csv" })));
+}
+
 let presetList = [];
 function choosePreset(id) {
   const p = presetList.find((x) => x.id === id);
@@ -427,6 +458,7 @@ async function start() {
   }
   bindControls();
   bindPresets();
+  bindExports();
   $("copy-link").addEventListener("click", copyLink);
   bindTurning();
   syncControls();
@@ -437,6 +469,10 @@ async function start() {
   window.twinshade = {
     sceneJson: () => viewer.sceneJson(),
     report: () => viewer.report(),
+    sheetDataUrl: () => {
+      const c = sheetCanvas();
+      return [c.width, c.height, c.toDataURL("image/png")];
+    },
   };
 }
 

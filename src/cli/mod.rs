@@ -12,10 +12,8 @@ pub use png_out::{read_png, write_png};
 pub use webbuild::{build_wasm_pkg, build_web, crate_root};
 
 use crate::measure::{Comparer, DiffMetrics, DifferenceSettings};
-use crate::render::ShadingMode;
 use crate::scene::Scene;
 use crate::workbench::{Panel, Workbench};
-use crate::{sheet, Framebuffer};
 use clap::{Parser, Subcommand};
 use std::path::{Path, PathBuf};
 
@@ -198,39 +196,17 @@ fn render(
         .map_err(|e| format!("cannot create {}: {e}", out_dir.display()))?;
     let mut bench = Workbench::new();
     let report = *bench.render(&scene).map_err(|e| e.to_string())?;
-    let panels = [
-        (
-            Panel::Gouraud,
-            "gouraud.png",
-            ShadingMode::Gouraud.label().to_string(),
-        ),
-        (
-            Panel::Phong,
-            "phong.png",
-            ShadingMode::Phong.label().to_string(),
-        ),
-        (
-            Panel::Difference,
-            "difference.png",
-            format!(
-                "dE00 {} vs {} (0-{})",
-                mode_file_name(report.pair[0]),
-                mode_file_name(report.pair[1]),
-                scene.difference.scale_max
-            ),
-        ),
-    ];
-    for (panel, name, _) in &panels {
-        let fb = bench.framebuffer(*panel);
+    for (panel, name) in [
+        (Panel::Gouraud, "gouraud.png"),
+        (Panel::Phong, "phong.png"),
+        (Panel::Difference, "difference.png"),
+    ] {
+        let fb = bench.framebuffer(panel);
         let path = out_dir.join(name);
         png_out::write_png(&path, fb.width(), fb.height(), fb.bytes())?;
         eprintln!("twinshade: wrote {}", path.display());
     }
-    let labelled: Vec<(&str, &Framebuffer)> = panels
-        .iter()
-        .map(|(p, _, label)| (label.as_str(), bench.framebuffer(*p)))
-        .collect();
-    let img = sheet::sheet(&labelled);
+    let img = bench.report_sheet(&scene);
     let path = out_dir.join("sheet.png");
     png_out::write_png(&path, img.width, img.height, &img.rgba)?;
     eprintln!("twinshade: wrote {}", path.display());
@@ -317,13 +293,4 @@ fn compare(
         )?;
     }
     Ok(())
-}
-
-fn mode_file_name(mode: ShadingMode) -> &'static str {
-    match mode {
-        ShadingMode::Flat => "flat",
-        ShadingMode::Gouraud => "gouraud",
-        ShadingMode::Phong => "phong",
-        ShadingMode::Exact => "exact",
-    }
 }
