@@ -70,14 +70,20 @@ enum Command {
         #[arg(long, default_value_t = 1.0)]
         threshold: f32,
     },
-    /// Print a scene as JSON.
+    /// Print a scene as JSON (or as the `#s=` part of a page link).
     Scene {
         /// Print the built-in default scene.
         #[arg(long)]
         default: bool,
         /// Validate and print this scene file (missing fields filled with defaults).
-        #[arg(long, conflicts_with = "default")]
+        #[arg(long, conflicts_with_all = ["default", "preset"])]
         file: Option<PathBuf>,
+        /// Print a built-in preset.
+        #[arg(long, conflicts_with = "default")]
+        preset: Option<String>,
+        /// Print the link fragment (`#s=...`) for the page instead of JSON.
+        #[arg(long)]
+        link: bool,
     },
     /// List the built-in presets with their captions.
     Presets,
@@ -157,13 +163,27 @@ fn run(command: Command) -> Result<(), String> {
             metrics,
             threshold,
         } => compare(&a, &b, out.as_deref(), metrics.as_deref(), threshold),
-        Command::Scene { default, file } => {
-            let scene = match (default, file) {
-                (_, Some(path)) => load_scene(&path)?,
-                (true, None) => Scene::default(),
-                (false, None) => return Err("say --default or --file FILE".into()),
+        Command::Scene {
+            default,
+            file,
+            preset,
+            link,
+        } => {
+            let scene = match (default, file, preset) {
+                (_, Some(path), _) => load_scene(&path)?,
+                (_, None, Some(id)) => crate::presets::preset(&id)
+                    .map(|p| p.scene)
+                    .ok_or_else(|| format!("no preset '{id}' (see `twinshade presets`)"))?,
+                (true, None, None) => Scene::default(),
+                (false, None, None) => {
+                    return Err("say --default, --file FILE or --preset ID".into())
+                }
             };
-            println!("{}", scene.to_json());
+            if link {
+                println!("#s={}", crate::share::encode(&scene));
+            } else {
+                println!("{}", scene.to_json());
+            }
             Ok(())
         }
         Command::BuildWeb { out } => {
