@@ -64,6 +64,11 @@ impl Framebuffer {
         bytemuck::cast_slice(&self.color)
     }
 
+    /// Copies another framebuffer's depth (same size) into this one.
+    pub fn copy_depth_from(&mut self, other: &Framebuffer) {
+        self.depth.copy_from_slice(&other.depth);
+    }
+
     /// The colour as mutable RGBA bytes (for images computed rather than rasterized).
     pub fn bytes_mut(&mut self) -> &mut [u8] {
         bytemuck::cast_slice_mut(&mut self.color)

@@ -18,10 +18,13 @@ const ONE: i64 = 1 << SUBPIXEL_BITS;
 const HALF: i64 = ONE / 2;
 
 /// A render target: packed RGBA8 colour (R in the lowest byte) and f32 depth, row 0 at the top,
-/// `width` pixels per row, no padding.
+/// `width` pixels per row, no padding; optionally a second colour buffer for shaders that
+/// produce two pixels per fragment (both panels from one pass).
 pub struct Target<'a> {
     /// Colour, `width * height` pixels.
     pub color: &'a mut [u32],
+    /// Second colour buffer (`width * height` pixels), or empty when unused.
+    pub color2: &'a mut [u32],
     /// Depth (NDC z, smaller is nearer), `width * height` values.
     pub depth: &'a mut [f32],
     /// Pixels per row.
@@ -46,20 +49,50 @@ pub struct RasterVertex<const N: usize> {
     pub var: [f32; N],
 }
 
-/// The shading stage: turns interpolated varyings into a packed RGBA8 pixel.
+/// What a fragment shader produces and how it is stored.
+pub trait Pixel: Copy {
+    /// Writes the value for pixel `i`.
+    fn store(self, target: &mut Target<'_>, i: usize);
+}
+
+impl Pixel for u32 {
+    #[inline(always)]
+    fn store(self, target: &mut Target<'_>, i: usize) {
+        target.color[i] = self;
+    }
+}
+
+/// Two pixels: the first to `color`, the second to `color2`.
+impl Pixel for [u32; 2] {
+    #[inline(always)]
+    fn store(self, target: &mut Target<'_>, i: usize) {
+        target.color[i] = self[0];
+        target.color2[i] = self[1];
+    }
+}
+
+/// The shading stage: turns interpolated varyings into packed RGBA8 pixels.
 pub trait FragmentShader<const N: usize> {
+    /// One packed pixel (`u32`) or one per colour buffer.
+    type Out: Pixel;
+
     /// True when fragments may be collected and shaded four at a time with
     /// [`FragmentShader::shade4`], possibly after later triangles were tested: such a shader
     /// must be the same for every triangle of a draw.
     const BATCH: bool = false;
 
     /// Shades one fragment that passed the depth test.
-    fn shade(&self, var: &[f32; N]) -> u32;
+    fn shade(&self, var: &[f32; N]) -> Self::Out;
 
     /// Shades four fragments; must give exactly what four [`FragmentShader::shade`] calls give.
     #[inline]
-    fn shade4(&self, var: &[[f32; N]; 4]) -> [u32; 4] {
-        [0, 1, 2, 3].map(|k| self.shade(&var[k]))
+    fn shade4(&self, var: &[[f32; N]; 4]) -> [Self::Out; 4] {
+        [
+            self.shade(&var[0]),
+            self.shade(&var[1]),
+            self.shade(&var[2]),
+            self.shade(&var[3]),
+        ]
     }
 }
 
@@ -84,7 +117,7 @@ impl<const N: usize> Batch<N> {
     #[inline(always)]
     fn push<S: FragmentShader<N>>(
         &mut self,
-        color: &mut [u32],
+        target: &mut Target<'_>,
         i: usize,
         var: [f32; N],
         shader: &S,
@@ -94,17 +127,17 @@ impl<const N: usize> Batch<N> {
         self.len += 1;
         if self.len == 4 {
             let out = shader.shade4(&self.var);
-            for k in 0..4 {
-                color[self.index[k]] = out[k];
+            for (k, px) in out.into_iter().enumerate() {
+                px.store(target, self.index[k]);
             }
             self.len = 0;
         }
     }
 
     /// Shades what is left, one by one, in the order the fragments arrived.
-    pub fn flush<S: FragmentShader<N>>(&mut self, color: &mut [u32], shader: &S) {
+    pub fn flush<S: FragmentShader<N>>(&mut self, target: &mut Target<'_>, shader: &S) {
         for k in 0..self.len {
-            color[self.index[k]] = shader.shade(&self.var[k]);
+            shader.shade(&self.var[k]).store(target, self.index[k]);
         }
         self.len = 0;
     }
@@ -230,7 +263,7 @@ pub fn draw_triangle<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
         Some(c) => fill::<N, PERSP, S>(target, &c, tri, shader, &mut batch),
         None => 0,
     };
-    batch.flush(target.color, shader);
+    batch.flush(target, shader);
     n
 }
 
@@ -331,9 +364,9 @@ pub fn fill<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
                         }
                     }
                     if S::BATCH {
-                        batch.push(target.color, i, frag, shader);
+                        batch.push(target, i, frag, shader);
                     } else {
-                        target.color[i] = shader.shade(&frag);
+                        shader.shade(&frag).store(target, i);
                     }
                     shaded += 1;
                 }

@@ -164,24 +164,19 @@ impl Renderer {
         Ok(())
     }
 
-    /// Renders `scene` with `mode` into `fb`, resizing it to the scene's panel size.
-    ///
-    /// # Errors
-    /// When the scene is invalid or names a mesh file that was not supplied.
-    pub fn render(
-        &mut self,
-        scene: &Scene,
-        mode: ShadingMode,
-        fb: &mut Framebuffer,
-    ) -> Result<PanelStats, SceneError> {
+    /// Validates the scene, prepares geometry and the per-frame vertex work, and sizes and
+    /// clears the framebuffers.
+    fn begin(&mut self, scene: &Scene, fbs: &mut [&mut Framebuffer]) -> Result<Frame, SceneError> {
         scene.validate()?;
         self.prepare_geometry(scene)?;
         let (width, height) = (scene.panel.width as usize, scene.panel.height as usize);
-        if fb.width() != width || fb.height() != height {
-            fb.resize(width, height);
-        }
         let bg = parse_hex(&scene.background).map_err(SceneError)?;
-        fb.clear(u32::from_le_bytes([bg[0], bg[1], bg[2], 255]));
+        for fb in fbs.iter_mut() {
+            if fb.width() != width || fb.height() != height {
+                fb.resize(width, height);
+            }
+            fb.clear(u32::from_le_bytes([bg[0], bg[1], bg[2], 255]));
+        }
         let camera = scene.camera.frame(width as f32 / height as f32);
         let rotation = scene.rotation_quat();
         self.transform(scene, &camera, rotation, width, height);
@@ -193,12 +188,123 @@ impl Renderer {
             &camera,
         )
         .map_err(SceneError)?;
-        let cull = if scene.cull_back_faces {
-            Cull::Back
-        } else {
-            Cull::None
+        Ok(Frame {
+            camera,
+            rotation,
+            lighting,
+            width,
+            height,
+            cull: if scene.cull_back_faces {
+                Cull::Back
+            } else {
+                Cull::None
+            },
+            persp: scene.perspective_correct,
+        })
+    }
+
+    /// Lights every render vertex (Gouraud's per-vertex evaluation), once per frame.
+    fn light_vertices(&mut self, lighting: &Lighting) {
+        self.vertex_color.clear();
+        self.vertex_color.extend(
+            self.world_nrm
+                .iter()
+                .zip(&self.world_pos)
+                .map(|(n, p)| lighting.shade(*n, *p)),
+        );
+    }
+
+    /// Renders the Gouraud and Phong panels in one pass: coverage, depth and interpolation
+    /// are shared, and each fragment gets both its per-vertex and its per-pixel colour. The
+    /// bytes are those of two [`Renderer::render`] calls (the same coverage, depth order and
+    /// interpolation formulas); the Phong framebuffer receives a copy of the depth buffer.
+    ///
+    /// # Errors
+    /// As [`Renderer::render`].
+    pub fn render_pair(
+        &mut self,
+        scene: &Scene,
+        gouraud: &mut Framebuffer,
+        phong: &mut Framebuffer,
+    ) -> Result<[PanelStats; 2], SceneError> {
+        let f = self.begin(scene, &mut [&mut *gouraud, &mut *phong])?;
+        self.light_vertices(&f.lighting);
+        let Some(geo) = self.geometry.as_ref() else {
+            return Err(SceneError("no mesh prepared".into()));
         };
-        let persp = scene.perspective_correct;
+        let ctx = DrawContext {
+            tris: &geo.vb.triangles,
+            clip: &self.clip,
+            outcodes: &self.outcodes,
+            screen: &self.screen,
+            fixed: &self.fixed,
+            size: (f.width as f32, f.height as f32),
+            cull: f.cull,
+        };
+        let (color2, _) = phong.planes_mut();
+        let (color, depth) = gouraud.planes_mut();
+        let mut target = Target {
+            color,
+            color2,
+            depth,
+            width: f.width,
+            height: f.height,
+        };
+        let shader = Both {
+            phong: PerPixel {
+                lighting: &f.lighting,
+                enc: SrgbEncoder::new(),
+            },
+        };
+        let (c, n, p) = (&self.vertex_color, &self.world_nrm, &self.world_pos);
+        let fragments = ctx.draw(
+            &mut target,
+            f.persp,
+            |v| {
+                let (c, n, p) = (c[v as usize], n[v as usize], p[v as usize]);
+                [c.x, c.y, c.z, n.x, n.y, n.z, p.x, p.y, p.z]
+            },
+            |_| shader,
+        );
+        phong.copy_depth_from(gouraud);
+        let triangles = geo.vb.triangles.len() as u64;
+        Ok([
+            PanelStats {
+                lit_vertices: self.vertex_color.len() as u64,
+                fragments,
+                triangles,
+            },
+            PanelStats {
+                lit_vertices: 0,
+                fragments,
+                triangles,
+            },
+        ])
+    }
+
+    /// Renders `scene` with `mode` into `fb`, resizing it to the scene's panel size.
+    ///
+    /// # Errors
+    /// When the scene is invalid or names a mesh file that was not supplied.
+    pub fn render(
+        &mut self,
+        scene: &Scene,
+        mode: ShadingMode,
+        fb: &mut Framebuffer,
+    ) -> Result<PanelStats, SceneError> {
+        let f = self.begin(scene, &mut [&mut *fb])?;
+        if mode == ShadingMode::Gouraud {
+            self.light_vertices(&f.lighting);
+        }
+        let Frame {
+            camera,
+            rotation,
+            lighting,
+            width,
+            height,
+            cull,
+            persp,
+        } = f;
         let Some(geo) = self.geometry.as_ref() else {
             return Err(SceneError("no mesh prepared".into()));
         };
@@ -219,17 +325,17 @@ impl Renderer {
         let (color, depth) = fb.planes_mut();
         let mut target = Target {
             color,
+            color2: &mut [],
             depth,
             width,
             height,
         };
-        let mode = if mode == ShadingMode::Exact
-            && geo.shape.and_then(|s| s.exact_normal(Vec3::X)).is_none()
-        {
-            ShadingMode::Phong
-        } else {
-            mode
-        };
+        let mode =
+            if mode == ShadingMode::Exact && !geo.shape.is_some_and(|s| s.has_exact_surface()) {
+                ShadingMode::Phong
+            } else {
+                mode
+            };
         stats.fragments = match mode {
             ShadingMode::Flat => {
                 let vb = &geo.vb;
@@ -261,13 +367,6 @@ impl Renderer {
                 )
             }
             ShadingMode::Gouraud => {
-                self.vertex_color.clear();
-                self.vertex_color.extend(
-                    self.world_nrm
-                        .iter()
-                        .zip(&self.world_pos)
-                        .map(|(n, p)| lighting.shade(*n, *p)),
-                );
                 stats.lit_vertices = self.vertex_color.len() as u64;
                 let colors = &self.vertex_color;
                 let shader = VertexColor { enc };
@@ -506,9 +605,46 @@ impl DrawContext<'_> {
             last_shader = Some(shader);
         }
         if let Some(shader) = last_shader {
-            batch.flush(target.color, &shader);
+            batch.flush(target, &shader);
         }
         shaded
+    }
+}
+
+/// The per-frame set-up shared by every panel.
+struct Frame {
+    camera: CameraFrame,
+    rotation: Quat,
+    lighting: Lighting,
+    width: usize,
+    height: usize,
+    cull: Cull,
+    persp: bool,
+}
+
+/// Gouraud and Phong at once: varyings 0..3 are the vertex colour, 3..9 the Phong normal and
+/// position; out come the Gouraud pixel (first buffer) and the Phong pixel (second).
+#[derive(Clone, Copy)]
+struct Both<'a> {
+    phong: PerPixel<'a>,
+}
+
+impl FragmentShader<9> for Both<'_> {
+    type Out = [u32; 2];
+    const BATCH: bool = true;
+
+    #[inline(always)]
+    fn shade(&self, v: &[f32; 9]) -> [u32; 2] {
+        let p = [v[3], v[4], v[5], v[6], v[7], v[8]];
+        [self.phong.enc.pack(v[0], v[1], v[2]), self.phong.shade(&p)]
+    }
+
+    #[inline(always)]
+    fn shade4(&self, v: &[[f32; 9]; 4]) -> [[u32; 2]; 4] {
+        let lanes = |k: usize| [v[k][3], v[k][4], v[k][5], v[k][6], v[k][7], v[k][8]];
+        let p = self.phong.shade4(&[lanes(0), lanes(1), lanes(2), lanes(3)]);
+        let g = |k: usize| self.phong.enc.pack(v[k][0], v[k][1], v[k][2]);
+        [[g(0), p[0]], [g(1), p[1]], [g(2), p[2]], [g(3), p[3]]]
     }
 }
 
@@ -517,6 +653,7 @@ impl DrawContext<'_> {
 struct Constant(u32);
 
 impl FragmentShader<0> for Constant {
+    type Out = u32;
     #[inline(always)]
     fn shade(&self, _: &[f32; 0]) -> u32 {
         self.0
@@ -530,6 +667,7 @@ struct VertexColor {
 }
 
 impl FragmentShader<3> for VertexColor {
+    type Out = u32;
     #[inline(always)]
     fn shade(&self, v: &[f32; 3]) -> u32 {
         self.enc.pack(v[0], v[1], v[2])
@@ -544,6 +682,7 @@ struct PerPixel<'a> {
 }
 
 impl FragmentShader<6> for PerPixel<'_> {
+    type Out = u32;
     const BATCH: bool = true;
 
     #[inline(always)]
@@ -589,6 +728,7 @@ struct ExactSurface<'a> {
 }
 
 impl FragmentShader<3> for ExactSurface<'_> {
+    type Out = u32;
     fn shade(&self, v: &[f32; 3]) -> u32 {
         let p = Vec3::from_array(*v);
         let world = self.rotation * p;

@@ -134,14 +134,12 @@ impl Workbench {
     /// # Errors
     /// As [`Workbench::render`].
     pub fn render_panels(&mut self, scene: &Scene) -> Result<[PanelStats; 2], SceneError> {
-        scene.validate()?;
-        self.stats[0] = self
+        let [g, p] = self
             .renderer
-            .render(scene, ShadingMode::Gouraud, &mut self.gouraud)?;
-        self.stats[1] = self
-            .renderer
-            .render(scene, ShadingMode::Phong, &mut self.phong)?;
-        Ok([self.stats[0], self.stats[1]])
+            .render_pair(scene, &mut self.gouraud, &mut self.phong)?;
+        self.stats[0] = g;
+        self.stats[1] = p;
+        Ok([g, p])
     }
 
     fn panel_of(&self, mode: ShadingMode) -> Option<usize> {

@@ -85,3 +85,48 @@ fn pixels_match_the_golden_images() {
         failures.join("\n")
     );
 }
+
+#[test]
+fn one_pass_pair_equals_separate_panels() {
+    // Renderer::render_pair shares coverage, depth and interpolation between the Gouraud and
+    // Phong panels; its bytes must be those of two separate renders.
+    let mut scenes = scenes();
+    for p in twinshade::presets::presets() {
+        scenes.push((
+            p.id,
+            Scene {
+                panel: PanelSize {
+                    width: 160,
+                    height: 120,
+                },
+                ..p.scene
+            },
+        ));
+    }
+    let mut r = Renderer::new();
+    for (name, mut scene) in scenes {
+        for turn in 0..3 {
+            scene.turn(23.0 * turn as f32, 7.0 * turn as f32);
+            let (mut g, mut p) = (Framebuffer::new(0, 0), Framebuffer::new(0, 0));
+            let stats = r.render_pair(&scene, &mut g, &mut p).expect("pair");
+            let mut g1 = Framebuffer::new(0, 0);
+            let mut p1 = Framebuffer::new(0, 0);
+            let sg = r
+                .render(&scene, ShadingMode::Gouraud, &mut g1)
+                .expect("gouraud");
+            let sp = r
+                .render(&scene, ShadingMode::Phong, &mut p1)
+                .expect("phong");
+            assert!(
+                g.bytes() == g1.bytes(),
+                "{name} turn {turn}: Gouraud differs"
+            );
+            assert!(p.bytes() == p1.bytes(), "{name} turn {turn}: Phong differs");
+            assert!(p.depth() == p1.depth(), "{name} turn {turn}: depth differs");
+            assert_eq!(
+                (stats[0].lit_vertices, stats[1].fragments),
+                (sg.lit_vertices, sp.fragments)
+            );
+        }
+    }
+}

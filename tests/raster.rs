@@ -6,6 +6,7 @@ use twinshade::raster::{draw_triangle, Cull, FragmentShader, RasterVertex, Targe
 /// Writes the first varying's bits as the pixel and counts fragments.
 struct Probe<'a>(&'a Cell<u32>);
 impl FragmentShader<1> for Probe<'_> {
+    type Out = u32;
     fn shade(&self, v: &[f32; 1]) -> u32 {
         self.0.set(self.0.get() + 1);
         v[0].to_bits()
@@ -39,6 +40,7 @@ impl Canvas {
         });
         let mut t = Target {
             color: &mut self.color,
+            color2: &mut [],
             depth: &mut self.depth,
             width: self.w,
             height: self.h,
