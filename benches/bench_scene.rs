@@ -51,5 +51,26 @@ fn frames(c: &mut Criterion) {
     group.finish();
 }
 
-criterion_group!(benches, frames);
+/// A page frame as a drag produces it: the default scene turned a little, both panels and
+/// the CIEDE2000 comparison.
+fn page_frames(c: &mut Criterion) {
+    let mut group = c.benchmark_group("page_frame");
+    group.sample_size(20);
+    for (w, h) in [(480, 360), (800, 600)] {
+        let mut scene = Scene::default();
+        scene.panel.width = w;
+        scene.panel.height = h;
+        let mut bench = Workbench::new();
+        bench.render(&scene).expect("default scene renders");
+        group.bench_function(BenchmarkId::from_parameter(format!("default_{w}x{h}")), |b| {
+            b.iter(|| {
+                scene.turn(1.0, 0.0);
+                bench.render(&scene).map(|r| r.metrics.covered_pixels).expect("frame")
+            })
+        });
+    }
+    group.finish();
+}
+
+criterion_group!(benches, frames, page_frames);
 criterion_main!(benches);
