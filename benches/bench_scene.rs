@@ -62,12 +62,18 @@ fn page_frames(c: &mut Criterion) {
         scene.panel.height = h;
         let mut bench = Workbench::new();
         bench.render(&scene).expect("default scene renders");
-        group.bench_function(BenchmarkId::from_parameter(format!("default_{w}x{h}")), |b| {
-            b.iter(|| {
-                scene.turn(1.0, 0.0);
-                bench.render(&scene).map(|r| r.metrics.covered_pixels).expect("frame")
-            })
-        });
+        group.bench_function(
+            BenchmarkId::from_parameter(format!("default_{w}x{h}")),
+            |b| {
+                b.iter(|| {
+                    scene.turn(1.0, 0.0);
+                    bench
+                        .render(&scene)
+                        .map(|r| r.metrics.covered_pixels)
+                        .expect("frame")
+                })
+            },
+        );
     }
     group.finish();
 }

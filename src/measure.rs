@@ -242,6 +242,22 @@ pub struct Comparer {
     de76: Vec<f32>,
     sorted: Vec<f32>,
     colormap: Vec<[u8; 3]>,
+    /// Direct-mapped memo of colour pairs already compared: key (A << 24 | B) + 1 (0 =
+    /// empty) and their (dE00, dE*ab). Smooth shading repeats the same 8-bit pairs over many
+    /// pixels; the memo returns the very values the formulas gave, so results do not change.
+    memo_key: Vec<u64>,
+    memo_val: Vec<(f64, f64)>,
+    /// Direct-mapped memo of CIELAB per colour: key rgb + 1 (0 = empty).
+    lab_key: Vec<u32>,
+    lab_val: Vec<Lab>,
+}
+
+/// Entries of the colour-pair memo (a power of two).
+const MEMO: usize = 1 << 14;
+
+#[inline(always)]
+fn pack_rgb(c: [u8; 3]) -> u64 {
+    u64::from(c[0]) << 16 | u64::from(c[1]) << 8 | u64::from(c[2])
 }
 
 /// Colour of pixels covered in only one image.
@@ -268,6 +284,18 @@ impl Comparer {
                 .collect();
         }
         &self.colormap
+    }
+
+    /// CIELAB of a colour through the per-colour memo (same values as [`srgb8_to_lab`]).
+    #[inline]
+    fn lab(&mut self, c: [u8; 3]) -> Lab {
+        let key = pack_rgb(c) as u32 + 1;
+        let slot = (u64::from(key).wrapping_mul(0x9e37_79b9_7f4a_7c15) >> (64 - 14)) as usize;
+        if self.lab_key[slot] != key {
+            self.lab_key[slot] = key;
+            self.lab_val[slot] = srgb8_to_lab(c);
+        }
+        self.lab_val[slot]
     }
 
     /// Colour of a dE00 value on the scale 0..=`scale_max`.
@@ -297,6 +325,12 @@ impl Comparer {
         out: &mut [u8],
     ) -> DiffMetrics {
         let n = (a.len() / 4).min(b.len() / 4).min(out.len() / 4);
+        if self.memo_key.len() != MEMO {
+            self.memo_key = vec![0; MEMO];
+            self.memo_val = vec![(0.0, 0.0); MEMO];
+            self.lab_key = vec![0; MEMO];
+            self.lab_val = vec![srgb8_to_lab([0, 0, 0]); MEMO];
+        }
         self.de00.clear();
         self.de76.clear();
         let mut m = DiffMetrics {
@@ -315,8 +349,18 @@ impl Comparer {
                     let (e00, e76) = if pa == pb {
                         (0.0, 0.0)
                     } else {
-                        let (la, lb) = (srgb8_to_lab(pa), srgb8_to_lab(pb));
-                        (ciede2000(la, lb), delta_e76(la, lb))
+                        let key = (pack_rgb(pa) << 24 | pack_rgb(pb)) + 1;
+                        // Fibonacci hashing of the 48-bit key into the memo.
+                        let slot = (key.wrapping_mul(0x9e37_79b9_7f4a_7c15) >> (64 - 14)) as usize;
+                        if self.memo_key[slot] == key {
+                            self.memo_val[slot]
+                        } else {
+                            let (la, lb) = (self.lab(pa), self.lab(pb));
+                            let v = (ciede2000(la, lb), delta_e76(la, lb));
+                            self.memo_key[slot] = key;
+                            self.memo_val[slot] = v;
+                            v
+                        }
                     };
                     m.peak_luminance[0] = m.peak_luminance[0].max(luminance(pa));
                     m.peak_luminance[1] = m.peak_luminance[1].max(luminance(pb));

@@ -56,26 +56,45 @@ function editScene(edit) {
   requestRender();
 }
 
-function requestRender() {
+// While the mesh is being dragged only the two shading panels are rendered each frame; the
+// CIEDE2000 comparison (the costliest part of a frame) follows once the drag pauses.
+const SETTLE_MS = 150;
+let quick = false;
+let settleTimer = 0;
+
+function requestRender(fast = false) {
   if (!pending) {
+    quick = fast;
     pending = true;
     requestAnimationFrame(frame);
+  } else if (!fast) {
+    quick = false; // a full frame was asked for as well
   }
 }
 
 function frame() {
   pending = false;
+  const fast = quick;
+  quick = false;
   const t0 = performance.now();
   try {
-    viewer.render();
+    if (fast) {
+      viewer.renderPanels();
+      clearTimeout(settleTimer);
+      settleTimer = setTimeout(() => requestRender(false), SETTLE_MS);
+    } else {
+      viewer.render();
+    }
   } catch (e) {
     showProblem(`Cannot render: ${e.message || e}`);
     return;
   }
+  document.body.dataset.stale = fast ? "1" : "";
   const w = viewer.width();
   const h = viewer.height();
   canvases.forEach((canvas) => {
     const i = PANEL_INDEX[canvas.dataset.panel];
+    if (fast && canvas.dataset.panel === "difference") return;
     if (canvas.width !== w || canvas.height !== h) {
       canvas.width = w;
       canvas.height = h;
@@ -85,9 +104,11 @@ function frame() {
   });
   lastFrameMs = performance.now() - t0;
   updateLink();
-  showStats();
-  showMetrics();
-  drawLegend();
+  if (!fast) {
+    showStats();
+    showMetrics();
+    drawLegend();
+  }
   document.body.dataset.ready = "1";
 }
 
@@ -374,7 +395,7 @@ function bindTurning() {
       travelled += Math.abs(dx) + Math.abs(dy);
       if (dx || dy) {
         viewer.turn(dx * DEG_PER_PX, dy * DEG_PER_PX);
-        requestRender();
+        requestRender(true);
       }
     });
     canvas.addEventListener("pointerup", (e) => {
