@@ -461,6 +461,45 @@ async fn page_end_to_end() {
         "console errors while following links and presets"
     );
 
+    // Presentation mode: the caption shows, arrow keys step through the presets, Esc stops.
+    c.find(Locator::Css("#present"))
+        .await
+        .expect("present button")
+        .click()
+        .await
+        .expect("start presenting");
+    let key = |k: char| {
+        KeyActions::new("keyboard".into())
+            .then(KeyAction::Down { value: k })
+            .then(KeyAction::Up { value: k })
+    };
+    let state = "return [document.body.dataset.present, document.getElementById('preset').value,
+                         document.getElementById('caption').hidden]";
+    let first = eval(&c, state).await;
+    c.perform_actions(key('\u{E014}'))
+        .await
+        .expect("press ArrowRight");
+    let second = eval(&c, state).await;
+    c.perform_actions(key('\u{E00C}'))
+        .await
+        .expect("press Escape");
+    let stopped = eval(&c, state).await;
+    let all = twinshade::presets::presets();
+    // The preset loop above left the last preset chosen: presenting starts there, and the
+    // next one after the last is the first.
+    let last = all.last().expect("presets").id;
+    assert_eq!(
+        first,
+        json!(["1", last, false]),
+        "presenting starts at the chosen preset"
+    );
+    assert_eq!(
+        second,
+        json!(["1", all[0].id, false]),
+        "ArrowRight steps on, wrapping around"
+    );
+    assert_eq!(stopped[0], json!(""), "Escape stops presenting");
+
     // Keyboard only: Tab reaches every control (and the panels, which turn with arrow keys).
     c.goto(&page).await.expect("open the page");
     wait_ready(&c).await;
