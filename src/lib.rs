@@ -13,6 +13,7 @@ pub mod camera;
 pub mod clip;
 pub mod color;
 pub mod framebuffer;
+pub mod import;
 pub mod lanes;
 pub mod lighting;
 pub mod measure;

@@ -7,7 +7,7 @@
 //! bad one raises a JavaScript `Error` and leaves the previous scene in place.
 
 use crate::measure::Comparer;
-use crate::scene::Scene;
+use crate::scene::{MeshSource, Scene};
 use crate::workbench::{Panel, Workbench};
 use wasm_bindgen::prelude::*;
 
@@ -29,6 +29,8 @@ pub struct Viewer {
     scene: Scene,
     bench: Workbench,
     legend: Comparer,
+    /// Name of the mesh file loaded into the workbench, if any.
+    mesh_name: Option<String>,
 }
 
 impl Default for Viewer {
@@ -48,6 +50,7 @@ impl Viewer {
             scene: Scene::default(),
             bench: Workbench::new(),
             legend: Comparer::new(),
+            mesh_name: None,
         }
     }
 
@@ -97,8 +100,33 @@ impl Viewer {
     /// JavaScript `Error` says what is wrong with the link.
     #[wasm_bindgen(js_name = setSceneFromLink)]
     pub fn set_scene_from_link(&mut self, text: &str) -> Result<(), JsValue> {
-        self.scene = crate::share::decode(text, self.scene.panel).map_err(js_error)?;
+        let scene = crate::share::decode(text, self.scene.panel).map_err(js_error)?;
+        if let MeshSource::File { name } = &scene.mesh {
+            if self.mesh_name.as_deref() != Some(name.as_str()) {
+                return Err(js_error(format!(
+                    "This link shows the mesh file '{name}', which is not loaded here: drop that file on the page, then open the link again"
+                )));
+            }
+        }
+        self.scene = scene;
         Ok(())
+    }
+
+    /// Imports a mesh file (OBJ or STL) from its bytes and shows it. Returns its counts
+    /// `{name, format, vertices, faces, triangles, dropped_faces, authored_normals}`. On any
+    /// problem a JavaScript `Error` names the file, the place and the problem, and the
+    /// previous scene stays.
+    #[wasm_bindgen(js_name = loadMesh)]
+    pub fn load_mesh(&mut self, name: &str, bytes: &[u8]) -> Result<JsValue, JsValue> {
+        let imported = crate::import::import(name, bytes).map_err(js_error)?;
+        let info = imported.info();
+        self.bench.set_file_mesh(imported.mesh);
+        self.mesh_name = Some(name.to_string());
+        self.scene.mesh = MeshSource::File {
+            name: name.to_string(),
+        };
+        let ser = serde_wasm_bindgen::Serializer::json_compatible();
+        serde::Serialize::serialize(&info, &ser).map_err(js_error)
     }
 
     /// The presets as `[{id, title, caption}]`.

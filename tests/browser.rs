@@ -500,6 +500,67 @@ async fn page_end_to_end() {
     );
     assert_eq!(stopped[0], json!(""), "Escape stops presenting");
 
+    // Picking a mesh file loads it (read in the page, never uploaded); a broken file is
+    // explained and the previous image stays.
+    let dir = std::env::temp_dir().join(format!("twinshade-files-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).expect("temp dir");
+    let good = dir.join("prism.obj");
+    std::fs::write(
+        &good,
+        "v 0 0 0\nv 1 0 0\nv 0 1 0\nv 0 0 1\nf 1 3 2\nf 1 2 4\nf 2 3 4\nf 3 1 4\n",
+    )
+    .expect("write a mesh");
+    let broken = dir.join("broken.obj");
+    std::fs::write(&broken, "v 0 0 0\nv 1 0 0\nv 0 1 0\nf 1 2 7\n").expect("write a broken mesh");
+    let before_mesh = canvas(&c, "phong").await.2;
+    c.find(Locator::Css("#mesh-file"))
+        .await
+        .expect("file picker")
+        .send_keys(&good.display().to_string())
+        .await
+        .expect("pick a file");
+    let with_mesh = wait_changed(&c, "phong", &before_mesh, "picking a mesh file").await;
+    let info = eval(
+        &c,
+        "return document.getElementById('mesh-info').textContent",
+    )
+    .await;
+    assert!(
+        info.as_str()
+            .is_some_and(|t| t.contains("prism.obj: 4 vertices, 4 faces, 4 triangles")),
+        "mesh counts shown: {info}"
+    );
+    c.find(Locator::Css("#mesh-file"))
+        .await
+        .expect("file picker")
+        .send_keys(&broken.display().to_string())
+        .await
+        .expect("pick a broken file");
+    let deadline = Instant::now() + Duration::from_secs(10);
+    let problem = loop {
+        let p = eval(
+            &c,
+            "const p = document.getElementById('problem'); return p.hidden ? '' : p.textContent",
+        )
+        .await;
+        if p.as_str().is_some_and(|t| !t.is_empty()) || Instant::now() > deadline {
+            break p;
+        }
+        tokio::time::sleep(Duration::from_millis(50)).await;
+    };
+    assert!(
+        problem
+            .as_str()
+            .is_some_and(|t| t.contains("broken.obj, line 4") && t.contains("out of range")),
+        "the broken file is explained with its line: {problem}"
+    );
+    tokio::time::sleep(Duration::from_millis(200)).await;
+    assert!(
+        canvas(&c, "phong").await.2 == with_mesh,
+        "the previous image stays"
+    );
+    let _ = std::fs::remove_dir_all(&dir);
+
     // Keyboard only: Tab reaches every control (and the panels, which turn with arrow keys).
     c.goto(&page).await.expect("open the page");
     wait_ready(&c).await;

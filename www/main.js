@@ -172,6 +172,59 @@ function bindExports() {
     download("twinshade-metrics.csv", new Blob([viewer.reportCsv()], { type: "text/csv" })));
 }
 
+/** Imports a mesh file's bytes; a broken file is explained and the previous scene stays. */
+function loadMeshBytes(name, bytes) {
+  try {
+    const info = viewer.loadMesh(name, new Uint8Array(bytes));
+    showProblem("");
+    $("mesh-info").textContent =
+      `${info.name}: ${fmt(info.vertices)} vertices, ${fmt(info.faces)} faces, ` +
+      `${fmt(info.triangles)} triangles, ${fmt(info.dropped_faces)} degenerate faces dropped; ` +
+      `normals ${info.authored_normals ? "from the file" : "computed"}.`;
+    $("preset").value = "";
+    $("preset-caption").textContent = "";
+    syncControls();
+    requestRender();
+    return true;
+  } catch (e) {
+    showProblem(`Not loaded: ${e.message || e}. The previous scene is unchanged.`);
+    return false;
+  }
+}
+
+function bindMeshFiles() {
+  const read = (file) => file.arrayBuffer().then((b) => loadMeshBytes(file.name, b));
+  $("mesh-file").addEventListener("change", () => {
+    const f = $("mesh-file").files[0];
+    if (f) read(f);
+  });
+  const zone = $("panels");
+  zone.addEventListener("dragover", (e) => { e.preventDefault(); zone.classList.add("dropping"); });
+  zone.addEventListener("dragleave", () => zone.classList.remove("dropping"));
+  zone.addEventListener("drop", (e) => {
+    e.preventDefault();
+    zone.classList.remove("dropping");
+    const f = e.dataTransfer && e.dataTransfer.files[0];
+    if (f) read(f);
+  });
+}
+
+/** `?mesh=relative/path.obj`: a mesh that docs host beside the page (same site only). */
+async function loadMeshFromQuery(path) {
+  const url = new URL(path, location.href);
+  if (url.origin !== location.origin) {
+    showProblem("The mesh= address must be on this site; other sites are never contacted.");
+    return;
+  }
+  try {
+    const r = await fetch(url);
+    if (!r.ok) throw new Error(`${r.status} ${r.statusText}`);
+    loadMeshBytes(url.pathname.split("/").pop() || "mesh", await r.arrayBuffer());
+  } catch (e) {
+    showProblem(`Cannot fetch the mesh ${path}: ${e.message || e}`);
+  }
+}
+
 let presetList = [];
 function choosePreset(id) {
   const p = presetList.find((x) => x.id === id);
@@ -307,6 +360,11 @@ function shapeKind(scene) {
 function syncControls() {
   const s = viewer.scene();
   const kind = shapeKind(s);
+  if (!kind) {
+    $("shape").value = "";
+    $("detail").disabled = true;
+    $("detail-out").textContent = "";
+  }
   if (kind) {
     const spec = SHAPES[kind];
     $("shape").value = kind;
@@ -468,6 +526,8 @@ async function start() {
       c.style.width = `${+fixed[1] / (window.devicePixelRatio || 1)}px`;
     }
   }
+  // A mesh hosted beside the page comes first, so a link that names it can then open.
+  if (q.get("mesh")) await loadMeshFromQuery(q.get("mesh"));
   // A scene in the link (#s=...) opens as it was shared; a damaged one is explained and the
   // default scene shown instead.
   if (location.hash.startsWith("#s=")) {
@@ -480,6 +540,7 @@ async function start() {
   bindControls();
   bindPresets();
   bindExports();
+  bindMeshFiles();
   $("copy-link").addEventListener("click", copyLink);
   bindTurning();
   syncControls();
@@ -490,6 +551,7 @@ async function start() {
   window.twinshade = {
     sceneJson: () => viewer.sceneJson(),
     report: () => viewer.report(),
+    loadMesh: (name, bytes) => loadMeshBytes(name, bytes),
     sheetDataUrl: () => {
       const c = sheetCanvas();
       return [c.width, c.height, c.toDataURL("image/png")];

@@ -44,6 +44,9 @@ enum Command {
         /// A built-in preset instead of a scene file (see `twinshade presets`).
         #[arg(long)]
         preset: Option<String>,
+        /// A mesh file (OBJ or STL) to render instead of the scene's shape.
+        #[arg(long)]
+        mesh: Option<PathBuf>,
         /// Panel size, WIDTHxHEIGHT (overrides the scene's).
         #[arg(long, value_parser = parse_size)]
         size: Option<(u32, u32)>,
@@ -137,6 +140,7 @@ fn run(command: Command) -> Result<(), String> {
         Command::Render {
             scene,
             preset,
+            mesh,
             size,
             out_dir,
             metrics,
@@ -148,7 +152,7 @@ fn run(command: Command) -> Result<(), String> {
                     .ok_or_else(|| format!("no preset '{id}' (see `twinshade presets`)"))?,
                 (None, None) => Scene::default(),
             };
-            render(scene, size, &out_dir, metrics.as_deref())
+            render(scene, mesh.as_deref(), size, &out_dir, metrics.as_deref())
         }
         Command::Presets => {
             for p in crate::presets::presets() {
@@ -201,8 +205,41 @@ fn load_scene(path: &Path) -> Result<Scene, String> {
     Scene::from_json(&text).map_err(|e| format!("{}: {e}", path.display()))
 }
 
+/// Reads and imports a mesh file, reporting its counts on stderr.
+fn load_mesh(path: &Path) -> Result<crate::import::Imported, String> {
+    let bytes =
+        std::fs::read(path).map_err(|e| format!("cannot read mesh {}: {e}", path.display()))?;
+    let name = path.file_name().map_or_else(
+        || path.display().to_string(),
+        |n| n.to_string_lossy().into_owned(),
+    );
+    let imported = crate::import::import(&name, &bytes).map_err(|e| e.to_string())?;
+    let info = imported.info();
+    eprintln!(
+        "twinshade: {}: {} vertices, {} faces, {} triangles, {} degenerate faces dropped, {} normals",
+        info.name,
+        info.vertices,
+        info.faces,
+        info.triangles,
+        info.dropped_faces,
+        if info.authored_normals { "authored" } else { "computed" }
+    );
+    Ok(imported)
+}
+
+/// What `render --metrics` writes: the frame report plus the mesh's counts when a file was
+/// rendered.
+#[derive(serde::Serialize)]
+struct RenderMetrics<'a> {
+    #[serde(flatten)]
+    report: &'a crate::workbench::FrameReport,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    mesh: Option<crate::import::MeshInfo>,
+}
+
 fn render(
     mut scene: Scene,
+    mesh: Option<&Path>,
     size: Option<(u32, u32)>,
     out_dir: &Path,
     metrics: Option<&Path>,
@@ -215,6 +252,15 @@ fn render(
     std::fs::create_dir_all(out_dir)
         .map_err(|e| format!("cannot create {}: {e}", out_dir.display()))?;
     let mut bench = Workbench::new();
+    let mut mesh_info = None;
+    if let Some(path) = mesh {
+        let imported = load_mesh(path)?;
+        mesh_info = Some(imported.info());
+        scene.mesh = crate::scene::MeshSource::File {
+            name: imported.mesh.name.clone(),
+        };
+        bench.set_file_mesh(imported.mesh);
+    }
     let report = *bench.render(&scene).map_err(|e| e.to_string())?;
     for (panel, name) in [
         (Panel::Gouraud, "gouraud.png"),
@@ -245,7 +291,13 @@ fn render(
         report.lighting.phong_pixels
     );
     if let Some(path) = metrics {
-        write_json(path, &report)?;
+        write_json(
+            path,
+            &RenderMetrics {
+                report: &report,
+                mesh: mesh_info,
+            },
+        )?;
     }
     Ok(())
 }
