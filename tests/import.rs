@@ -114,15 +114,110 @@ fn three_files(mesh: &Mesh) -> (String, Vec<u8>, String) {
     (obj, bin, ascii)
 }
 
+/// The positions and triangle indices of a shape as glTF 2.0: JSON with a data URI, and the
+/// same as a binary GLB container. `nodes` lists a translation per node instance.
+fn gltf_files(mesh: &Mesh, nodes: &[[f32; 3]]) -> (String, Vec<u8>) {
+    use base64::Engine;
+    let mut bin = Vec::new();
+    for p in &mesh.positions {
+        for c in p.to_array() {
+            bin.extend_from_slice(&c.to_le_bytes());
+        }
+    }
+    let pos_len = bin.len();
+    let mut count = 0;
+    for f in 0..mesh.face_count() {
+        for c in mesh.face(f) {
+            bin.extend_from_slice(&c.position.to_le_bytes());
+            count += 1;
+        }
+    }
+    let (lo, hi) = mesh.bounds().expect("bounds");
+    let node_json: Vec<String> = nodes
+        .iter()
+        .map(|t| format!(r#"{{"mesh":0,"translation":[{},{},{}]}}"#, t[0], t[1], t[2]))
+        .collect();
+    let roots: Vec<String> = (0..nodes.len()).map(|i| i.to_string()).collect();
+    let json = |uri: &str| {
+        format!(
+            r#"{{"asset":{{"version":"2.0"}},"scene":0,"scenes":[{{"nodes":[{}]}}],"nodes":[{}],
+"meshes":[{{"primitives":[{{"attributes":{{"POSITION":0}},"indices":1}}]}}],
+"buffers":[{{{uri}"byteLength":{}}}],
+"bufferViews":[{{"buffer":0,"byteOffset":0,"byteLength":{pos_len}}},{{"buffer":0,"byteOffset":{pos_len},"byteLength":{}}}],
+"accessors":[{{"bufferView":0,"componentType":5126,"count":{},"type":"VEC3","min":[{},{},{}],"max":[{},{},{}]}},
+{{"bufferView":1,"componentType":5125,"count":{count},"type":"SCALAR"}}]}}"#,
+            roots.join(","),
+            node_json.join(","),
+            bin.len(),
+            bin.len() - pos_len,
+            mesh.positions.len(),
+            lo.x,
+            lo.y,
+            lo.z,
+            hi.x,
+            hi.y,
+            hi.z
+        )
+    };
+    let data_uri = format!(
+        r#""uri":"data:application/octet-stream;base64,{}","#,
+        base64::engine::general_purpose::STANDARD.encode(&bin)
+    );
+    let text = json(&data_uri);
+    let mut json_chunk = json("").into_bytes();
+    while json_chunk.len() % 4 != 0 {
+        json_chunk.push(b' ');
+    }
+    let mut bin_chunk = bin.clone();
+    while bin_chunk.len() % 4 != 0 {
+        bin_chunk.push(0);
+    }
+    let total = 12 + 8 + json_chunk.len() + 8 + bin_chunk.len();
+    let mut glb = Vec::new();
+    glb.extend_from_slice(b"glTF");
+    glb.extend_from_slice(&2u32.to_le_bytes());
+    glb.extend_from_slice(&(total as u32).to_le_bytes());
+    glb.extend_from_slice(&(json_chunk.len() as u32).to_le_bytes());
+    glb.extend_from_slice(b"JSON");
+    glb.extend_from_slice(&json_chunk);
+    glb.extend_from_slice(&(bin_chunk.len() as u32).to_le_bytes());
+    glb.extend_from_slice(b"BIN\0");
+    glb.extend_from_slice(&bin_chunk);
+    (text, glb)
+}
+
 #[test]
-fn the_same_shape_in_three_files_renders_identical_pixels() {
+fn gltf_node_transforms_are_applied() {
+    let ball = Shape::Icosphere { level: 1 }.build();
+    let (text, glb) = gltf_files(&ball, &[[0.0, 0.0, 0.0], [3.0, 0.0, 0.0]]);
+    for (name, bytes) in [("pair.gltf", text.into_bytes()), ("pair.glb", glb)] {
+        let m = import(name, &bytes).expect("imports");
+        assert_eq!(
+            m.mesh.positions.len(),
+            2 * ball.positions.len(),
+            "{name}: two instances"
+        );
+        assert_eq!(m.mesh.face_count(), 2 * ball.face_count(), "{name}");
+        // Spheres of radius 1 at x = 0 and x = 3: 5 wide, 2 high (before the fit to the view).
+        let (lo, hi) = m.mesh.bounds().expect("bounds");
+        let aspect = (hi.x - lo.x) / (hi.y - lo.y);
+        assert!((aspect - 2.5).abs() < 1e-5, "{name}: aspect {aspect}");
+    }
+}
+
+#[test]
+fn the_same_shape_in_five_files_renders_identical_pixels() {
     let shape = Shape::Icosphere { level: 2 }.build();
     let (obj, bin, ascii) = three_files(&shape);
+    // glTF keeps the icosphere's own vertex order; OBJ and STL list vertices by first use.
+    let (gltf_text, glb) = gltf_files(&shape, &[[0.0, 0.0, 0.0]]);
     let mut images = Vec::new();
     for (name, bytes, format) in [
         ("ball.obj", obj.into_bytes(), Format::Obj),
         ("ball.stl", bin, Format::StlBinary),
         ("ball-ascii.stl", ascii.into_bytes(), Format::StlAscii),
+        ("ball.gltf", gltf_text.into_bytes(), Format::Gltf),
+        ("ball.glb", glb, Format::Glb),
     ] {
         let m = import(name, &bytes).expect("imports");
         assert_eq!(m.format, format, "{name}");
@@ -189,6 +284,10 @@ fn every_malformed_variant_is_explained_with_its_place() {
         ("two.stl", b"solid x\nfacet normal 0 0 1\nouter loop\nvertex 0 0 0\nvertex 1 0 0\nendloop\nendfacet\nendsolid\n".to_vec(), Location::Line(6), "3 vertices"),
         ("open.stl", b"solid x\nfacet normal 0 0 1\nouter loop\nvertex 0 0 0\n".to_vec(), Location::File, "ends inside a facet"),
         ("what.txt", b"hello\n".to_vec(), Location::File, "unrecognised"),
+        ("bad.gltf", b"{\"asset\": ".to_vec(), Location::File, "not a valid glTF"),
+        ("fake.glb", b"PK\x03\x04 zip".to_vec(), Location::Byte(0), "does not start with 'glTF'"),
+        ("cut.glb", b"glTF\x02\0\0\0\xff\0\0\0".to_vec(), Location::File, "not a valid glTF"),
+        ("external.gltf", br#"{"asset":{"version":"2.0"},"buffers":[{"uri":"mesh.bin","byteLength":4}]}"#.to_vec(), Location::File, "external file"),
     ];
     // A binary STL with a NaN coordinate in its second triangle's first vertex.
     let at = 84 + 50 + 12;
@@ -221,8 +320,16 @@ fn the_triangle_limit_is_enforced() {
 #[test]
 fn arbitrary_bytes_never_panic() {
     // Property test: random files and damaged copies of valid ones must give Ok or Err,
-    // never a panic. 20,000 inputs per run (fixed seed).
-    let mut state = 0x1234_5678_9abc_def1u64;
+    // never a panic. 20,000 inputs per run with a fixed seed; TWINSHADE_FUZZ_INPUTS and
+    // TWINSHADE_FUZZ_SEED run longer or other campaigns.
+    let env = |k: &str, d: u64| {
+        std::env::var(k)
+            .ok()
+            .and_then(|v| v.parse().ok())
+            .unwrap_or(d)
+    };
+    let total = env("TWINSHADE_FUZZ_INPUTS", 20_000) as u32;
+    let mut state = env("TWINSHADE_FUZZ_SEED", 0x1234_5678_9abc_def1).max(1);
     let mut next = move || {
         state ^= state << 13;
         state ^= state >> 7;
@@ -230,16 +337,19 @@ fn arbitrary_bytes_never_panic() {
         state
     };
     let (obj, bin, ascii) = three_files(&Shape::Icosphere { level: 1 }.build());
-    let seeds: [(&str, Vec<u8>); 4] = [
+    let (gltf_text, glb) = gltf_files(&Shape::Icosphere { level: 1 }.build(), &[[0.0; 3]]);
+    let seeds: [(&str, Vec<u8>); 6] = [
         ("a.obj", obj.into_bytes()),
         ("b.stl", bin),
         ("c.stl", ascii.into_bytes()),
         ("d.obj", CUBE_OBJ.as_bytes().to_vec()),
+        ("e.gltf", gltf_text.into_bytes()),
+        ("f.glb", glb),
     ];
     let mut runs = 0;
-    for i in 0..20_000u32 {
-        let (name, mut bytes) = match i % 5 {
-            4 => ("r.obj", (0..next() % 600).map(|_| next() as u8).collect()),
+    for i in 0..total {
+        let (name, mut bytes) = match i % 7 {
+            6 => ("r.obj", (0..next() % 600).map(|_| next() as u8).collect()),
             k => (seeds[k as usize].0, seeds[k as usize].1.clone()),
         };
         match next() % 3 {
@@ -261,7 +371,7 @@ fn arbitrary_bytes_never_panic() {
         runs += 1;
     }
     eprintln!("import fuzz: {runs} inputs, no panic");
-    assert_eq!(runs, 20_000);
+    assert_eq!(runs, total);
 }
 
 #[test]

@@ -1,12 +1,13 @@
 //! Mesh files from users: format detection, limits, errors that say what and where, and the
 //! clean-up every import gets (degenerate faces dropped, centred and scaled to the view).
 //!
-//! Formats: Wavefront OBJ ([`obj`]) and STL, binary and ASCII ([`stl`]). Both parsers are our
-//! own, small and strict: the crates we evaluated for them (`tobj` 4, `stl_io` 0.11) report
-//! failures without a line number or byte offset, and users must be told *where* a file is
-//! broken. Every parser works on bytes in memory (the page reads dropped files locally) and
+//! Formats: Wavefront OBJ ([`obj`]), STL binary and ASCII ([`stl`]), glTF 2.0 `.gltf` and
+//! `.glb` ([`gltf`], through the `gltf` crate). The OBJ and STL parsers are our own, small
+//! and strict: the crates we evaluated for them (`tobj` 4, `stl_io` 0.11) report failures
+//! without a line number or byte offset, and users must be told *where* a file is broken. Every parser works on bytes in memory (the page reads dropped files locally) and
 //! never panics: malformed input of any kind becomes an [`ImportError`].
 
+pub mod gltf;
 pub mod obj;
 pub mod stl;
 
@@ -27,6 +28,10 @@ pub enum Format {
     StlBinary,
     /// ASCII STL.
     StlAscii,
+    /// glTF 2.0, JSON with embedded buffers.
+    Gltf,
+    /// glTF 2.0, binary container.
+    Glb,
 }
 
 /// Where in a file a problem is.
@@ -148,6 +153,19 @@ impl Imported {
 /// Detects the format from the bytes (and the name's extension where bytes do not decide).
 pub fn detect(name: &str, bytes: &[u8]) -> Result<Format, ParseError> {
     let lower = name.to_ascii_lowercase();
+    if bytes.starts_with(b"glTF") {
+        return Ok(Format::Glb);
+    }
+    if lower.ends_with(".gltf") || lower.ends_with(".glb") {
+        return if lower.ends_with(".glb") {
+            Err(ParseError::byte(
+                0,
+                "not a binary glTF file: it does not start with 'glTF'",
+            ))
+        } else {
+            Ok(Format::Gltf)
+        };
+    }
     if stl::is_binary(bytes) {
         return Ok(Format::StlBinary);
     }
@@ -179,7 +197,7 @@ pub fn detect(name: &str, bytes: &[u8]) -> Result<Format, ParseError> {
         return Ok(Format::Obj);
     }
     Err(ParseError::file(
-        "unrecognised mesh format (twinshade reads .obj and .stl)",
+        "unrecognised mesh format (twinshade reads .obj, .stl, .gltf and .glb)",
     ))
 }
 
@@ -208,6 +226,7 @@ pub fn import(name: &str, bytes: &[u8]) -> Result<Imported, ImportError> {
         Format::Obj => obj::parse(bytes),
         Format::StlBinary => stl::parse_binary(bytes),
         Format::StlAscii => stl::parse_ascii(bytes),
+        Format::Gltf | Format::Glb => gltf::parse(bytes),
     }
     .map_err(fail)?;
     mesh.name = name.to_string();
