@@ -112,7 +112,7 @@ impl Viewer {
         Ok(())
     }
 
-    /// Imports a mesh file (OBJ or STL) from its bytes and shows it. Returns its counts
+    /// Imports a mesh file (OBJ, STL, PLY, glTF or GLB) from its bytes and shows it. Returns its counts
     /// `{name, format, vertices, faces, triangles, dropped_faces, authored_normals}`. On any
     /// problem a JavaScript `Error` names the file, the place and the problem, and the
     /// previous scene stays.

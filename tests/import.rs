@@ -186,6 +186,42 @@ fn gltf_files(mesh: &Mesh, nodes: &[[f32; 3]]) -> (String, Vec<u8>) {
     (text, glb)
 }
 
+/// A shape as PLY: ASCII, binary little endian (float) and binary big endian (double).
+fn ply_files(mesh: &Mesh) -> (String, Vec<u8>, Vec<u8>) {
+    let header = |format: &str, real: &str| {
+        format!(
+            "ply\nformat {format} 1.0\ncomment made by the twinshade tests\nelement vertex {}\n\
+             property {real} x\nproperty {real} y\nproperty {real} z\nelement face {}\n\
+             property list uchar int vertex_indices\nend_header\n",
+            mesh.positions.len(),
+            mesh.face_count()
+        )
+    };
+    let mut ascii = header("ascii", "float");
+    let mut le = header("binary_little_endian", "float").into_bytes();
+    let mut be = header("binary_big_endian", "double").into_bytes();
+    for p in &mesh.positions {
+        ascii += &format!("{:?} {:?} {:?}\n", p.x, p.y, p.z);
+        for c in p.to_array() {
+            le.extend_from_slice(&c.to_le_bytes());
+            be.extend_from_slice(&f64::from(c).to_be_bytes());
+        }
+    }
+    for f in 0..mesh.face_count() {
+        let face = mesh.face(f);
+        ascii += &format!("{}", face.len());
+        le.push(face.len() as u8);
+        be.push(face.len() as u8);
+        for c in face {
+            ascii += &format!(" {}", c.position);
+            le.extend_from_slice(&(c.position as i32).to_le_bytes());
+            be.extend_from_slice(&(c.position as i32).to_be_bytes());
+        }
+        ascii += "\n";
+    }
+    (ascii, le, be)
+}
+
 #[test]
 fn gltf_node_transforms_are_applied() {
     let ball = Shape::Icosphere { level: 1 }.build();
@@ -206,11 +242,12 @@ fn gltf_node_transforms_are_applied() {
 }
 
 #[test]
-fn the_same_shape_in_five_files_renders_identical_pixels() {
+fn the_same_shape_in_eight_files_renders_identical_pixels() {
     let shape = Shape::Icosphere { level: 2 }.build();
     let (obj, bin, ascii) = three_files(&shape);
     // glTF keeps the icosphere's own vertex order; OBJ and STL list vertices by first use.
     let (gltf_text, glb) = gltf_files(&shape, &[[0.0, 0.0, 0.0]]);
+    let (ply_ascii, ply_le, ply_be) = ply_files(&shape);
     let mut images = Vec::new();
     for (name, bytes, format) in [
         ("ball.obj", obj.into_bytes(), Format::Obj),
@@ -218,6 +255,9 @@ fn the_same_shape_in_five_files_renders_identical_pixels() {
         ("ball-ascii.stl", ascii.into_bytes(), Format::StlAscii),
         ("ball.gltf", gltf_text.into_bytes(), Format::Gltf),
         ("ball.glb", glb, Format::Glb),
+        ("ball.ply", ply_ascii.into_bytes(), Format::Ply),
+        ("ball-le.ply", ply_le, Format::Ply),
+        ("ball-be.ply", ply_be, Format::Ply),
     ] {
         let m = import(name, &bytes).expect("imports");
         assert_eq!(m.format, format, "{name}");
@@ -287,6 +327,11 @@ fn every_malformed_variant_is_explained_with_its_place() {
         ("bad.gltf", b"{\"asset\": ".to_vec(), Location::File, "not a valid glTF"),
         ("fake.glb", b"PK\x03\x04 zip".to_vec(), Location::Byte(0), "does not start with 'glTF'"),
         ("cut.glb", b"glTF\x02\0\0\0\xff\0\0\0".to_vec(), Location::File, "not a valid glTF"),
+        ("text.ply", b"solid\n".to_vec(), Location::Byte(0), "does not start with 'ply'"),
+        ("nohead.ply", b"ply\nformat ascii 1.0\nelement vertex 1\n".to_vec(), Location::Line(4), "end_header"),
+        ("word.ply", b"ply\nformat ascii 1.0\nelement vertex 1\nproperty float x\nproperty float y\nproperty float z\nend_header\n0 zero 0\n".to_vec(), Location::Line(8), "'zero' is not a number"),
+        ("cut.ply", b"ply\nformat binary_little_endian 1.0\nelement vertex 2\nproperty float x\nproperty float y\nproperty float z\nend_header\n\0\0\0\0\0\0\0\0\0\0\0\0\0\0".to_vec(), Location::Byte(127), "cut short"),
+        ("index.ply", b"ply\nformat ascii 1.0\nelement vertex 3\nproperty float x\nproperty float y\nproperty float z\nelement face 1\nproperty list uchar int vertex_indices\nend_header\n0 0 0\n1 0 0\n0 1 0\n3 0 1 5\n".to_vec(), Location::Line(13), "out of range"),
         ("external.gltf", br#"{"asset":{"version":"2.0"},"buffers":[{"uri":"mesh.bin","byteLength":4}]}"#.to_vec(), Location::File, "external file"),
     ];
     // A binary STL with a NaN coordinate in its second triangle's first vertex.
@@ -338,7 +383,10 @@ fn arbitrary_bytes_never_panic() {
     };
     let (obj, bin, ascii) = three_files(&Shape::Icosphere { level: 1 }.build());
     let (gltf_text, glb) = gltf_files(&Shape::Icosphere { level: 1 }.build(), &[[0.0; 3]]);
-    let seeds: [(&str, Vec<u8>); 6] = [
+    let (ply_ascii, ply_le, _) = ply_files(&Shape::Icosphere { level: 1 }.build());
+    let seeds: [(&str, Vec<u8>); 8] = [
+        ("g.ply", ply_ascii.into_bytes()),
+        ("h.ply", ply_le),
         ("a.obj", obj.into_bytes()),
         ("b.stl", bin),
         ("c.stl", ascii.into_bytes()),
@@ -348,8 +396,8 @@ fn arbitrary_bytes_never_panic() {
     ];
     let mut runs = 0;
     for i in 0..total {
-        let (name, mut bytes) = match i % 7 {
-            6 => ("r.obj", (0..next() % 600).map(|_| next() as u8).collect()),
+        let (name, mut bytes) = match i % 9 {
+            8 => ("r.obj", (0..next() % 600).map(|_| next() as u8).collect()),
             k => (seeds[k as usize].0, seeds[k as usize].1.clone()),
         };
         match next() % 3 {

@@ -180,7 +180,7 @@ function loadMeshBytes(name, bytes) {
     $("mesh-info").textContent =
       `${info.name}: ${fmt(info.vertices)} vertices, ${fmt(info.faces)} faces, ` +
       `${fmt(info.triangles)} triangles, ${fmt(info.dropped_faces)} degenerate faces dropped; ` +
-      `normals ${info.authored_normals ? "from the file" : "computed"}.`;
+      `normals ${info.authored_normals ? "in the file" : "not in the file (computed)"}.`;
     $("preset").value = "";
     $("preset-caption").textContent = "";
     syncControls();
@@ -375,6 +375,10 @@ function syncControls() {
     detail.value = spec.of(s.mesh.shape);
     $("detail-out").textContent = spec.text(+detail.value);
   }
+  $("normal-source").value = s.normals.source;
+  $("normal-weighting").value = s.normals.weighting;
+  $("crease").value = s.normals.crease_deg;
+  $("crease-out").textContent = s.normals.crease_deg >= 180 ? "smooth" : `${Math.round(s.normals.crease_deg)}°`;
   const m = s.material;
   $("base").value = m.base_color;
   $("finish").value = m.finish;
@@ -414,6 +418,9 @@ function bindControls() {
     const spec = SHAPES[$("shape").value];
     s.mesh = { shape: spec.make(+$("detail").value) };
   });
+  on("normal-source", "change", (s) => { s.normals.source = $("normal-source").value; });
+  on("normal-weighting", "change", (s) => { s.normals.weighting = $("normal-weighting").value; });
+  on("crease", "input", (s) => { s.normals.crease_deg = +$("crease").value; });
   on("base", "input", (s) => { s.material.base_color = $("base").value; });
   on("finish", "change", (s) => { s.material.finish = $("finish").value; });
   on("model", "change", (s) => { s.model = $("model").value; });

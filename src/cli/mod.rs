@@ -44,7 +44,7 @@ enum Command {
         /// A built-in preset instead of a scene file (see `twinshade presets`).
         #[arg(long)]
         preset: Option<String>,
-        /// A mesh file (OBJ or STL) to render instead of the scene's shape.
+        /// A mesh file (OBJ, STL, PLY, glTF or GLB) to render instead of the scene's shape.
         #[arg(long)]
         mesh: Option<PathBuf>,
         /// Panel size, WIDTHxHEIGHT (overrides the scene's).

@@ -1,14 +1,16 @@
 //! Mesh files from users: format detection, limits, errors that say what and where, and the
 //! clean-up every import gets (degenerate faces dropped, centred and scaled to the view).
 //!
-//! Formats: Wavefront OBJ ([`obj`]), STL binary and ASCII ([`stl`]), glTF 2.0 `.gltf` and
-//! `.glb` ([`gltf`], through the `gltf` crate). The OBJ and STL parsers are our own, small
-//! and strict: the crates we evaluated for them (`tobj` 4, `stl_io` 0.11) report failures
-//! without a line number or byte offset, and users must be told *where* a file is broken. Every parser works on bytes in memory (the page reads dropped files locally) and
+//! Formats: Wavefront OBJ ([`obj`]), STL binary and ASCII ([`stl`]), PLY ASCII and binary
+//! ([`ply`]), glTF 2.0 `.gltf` and `.glb` ([`gltf`], through the `gltf` crate). The OBJ, STL
+//! and PLY parsers are our own, small and strict: the crates we evaluated for them (`tobj` 4,
+//! `stl_io` 0.11, `ply-rs` 0.1) report failures without a line number or byte offset, and
+//! users must be told *where* a file is broken. Every parser works on bytes in memory (the page reads dropped files locally) and
 //! never panics: malformed input of any kind becomes an [`ImportError`].
 
 pub mod gltf;
 pub mod obj;
+pub mod ply;
 pub mod stl;
 
 use crate::mesh::{Mesh, MeshError, MAX_TRIANGLES};
@@ -32,6 +34,8 @@ pub enum Format {
     Gltf,
     /// glTF 2.0, binary container.
     Glb,
+    /// PLY, ASCII or binary.
+    Ply,
 }
 
 /// Where in a file a problem is.
@@ -156,6 +160,15 @@ pub fn detect(name: &str, bytes: &[u8]) -> Result<Format, ParseError> {
     if bytes.starts_with(b"glTF") {
         return Ok(Format::Glb);
     }
+    if bytes.starts_with(b"ply\n") || bytes.starts_with(b"ply\r\n") {
+        return Ok(Format::Ply);
+    }
+    if lower.ends_with(".ply") {
+        return Err(ParseError::byte(
+            0,
+            "not a PLY file: it does not start with 'ply'",
+        ));
+    }
     if lower.ends_with(".gltf") || lower.ends_with(".glb") {
         return if lower.ends_with(".glb") {
             Err(ParseError::byte(
@@ -197,7 +210,7 @@ pub fn detect(name: &str, bytes: &[u8]) -> Result<Format, ParseError> {
         return Ok(Format::Obj);
     }
     Err(ParseError::file(
-        "unrecognised mesh format (twinshade reads .obj, .stl, .gltf and .glb)",
+        "unrecognised mesh format (twinshade reads .obj, .stl, .ply, .gltf and .glb)",
     ))
 }
 
@@ -227,6 +240,7 @@ pub fn import(name: &str, bytes: &[u8]) -> Result<Imported, ImportError> {
         Format::StlBinary => stl::parse_binary(bytes),
         Format::StlAscii => stl::parse_ascii(bytes),
         Format::Gltf | Format::Glb => gltf::parse(bytes),
+        Format::Ply => ply::parse(bytes),
     }
     .map_err(fail)?;
     mesh.name = name.to_string();
