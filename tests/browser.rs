@@ -561,6 +561,29 @@ async fn page_end_to_end() {
     );
     let _ = std::fs::remove_dir_all(&dir);
 
+    // ?mesh= loads a file hosted beside the page (www/pkg is the build folder, not in git).
+    let hosted = twinshade::cli::crate_root().join("www/pkg/test-hosted.stl");
+    std::fs::write(
+        &hosted,
+        "solid t\nfacet normal 0 0 1\nouter loop\nvertex 0 0 0\nvertex 1 0 0\nvertex 0 1 0\nendloop\nendfacet\nendsolid t\n",
+    )
+    .expect("host a mesh");
+    c.goto(&format!("{url}?size=320x240&mesh=pkg/test-hosted.stl"))
+        .await
+        .expect("open with mesh=");
+    wait_ready(&c).await;
+    let info = eval(
+        &c,
+        "return document.getElementById('mesh-info').textContent",
+    )
+    .await;
+    let _ = std::fs::remove_file(&hosted);
+    assert!(
+        info.as_str()
+            .is_some_and(|t| t.starts_with("test-hosted.stl: 3 vertices, 1 faces")),
+        "mesh= loads the hosted file: {info}"
+    );
+
     // Keyboard only: Tab reaches every control (and the panels, which turn with arrow keys).
     c.goto(&page).await.expect("open the page");
     wait_ready(&c).await;

@@ -211,3 +211,54 @@ fn render_metrics_and_compare_agree() {
     let _ = std::fs::remove_dir_all(&dir);
     let _ = std::fs::remove_dir_all(&small);
 }
+
+#[test]
+fn render_a_mesh_file_reports_its_counts() {
+    let dir = temp_dir("mesh");
+    std::fs::create_dir_all(&dir).expect("temp dir");
+    let obj = dir.join("wedge.obj");
+    std::fs::write(
+        &obj,
+        "v 0 0 0\nv 1 0 0\nv 0 1 0\nv 0 0 1\nv 1 1 1\nf 1 3 2\nf 1 2 4\nf 2 3 5 4\nf 3 1 4\nf 1 1 2\n",
+    )
+    .expect("write");
+    let d = dir.to_str().expect("utf-8").to_string();
+    let metrics = format!("{d}/m.json");
+    let out = twinshade(&[
+        "render",
+        "--mesh",
+        obj.to_str().expect("utf-8"),
+        "--size",
+        "120x90",
+        "--out-dir",
+        &d,
+        "--metrics",
+        &metrics,
+    ]);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(out.status.success(), "{err}");
+    assert!(
+        err.contains("wedge.obj: 5 vertices, 4 faces, 5 triangles, 1 degenerate faces dropped"),
+        "{err}"
+    );
+    let m: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(&metrics).expect("metrics")).expect("JSON");
+    assert_eq!(m["mesh"]["faces"], 4);
+    assert_eq!(m["mesh"]["dropped_faces"], 1);
+    assert_eq!(m["mesh"]["format"], "obj");
+    // A broken mesh: a message with the line, a failing exit code.
+    std::fs::write(&obj, "v 0 0 0\nf 1 2 3\n").expect("write");
+    let out = twinshade(&[
+        "render",
+        "--mesh",
+        obj.to_str().expect("utf-8"),
+        "--out-dir",
+        &d,
+    ]);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        !out.status.success() && err.contains("wedge.obj, line 2: vertex index 2 is out of range"),
+        "{err}"
+    );
+    let _ = std::fs::remove_dir_all(&dir);
+}
