@@ -266,6 +266,23 @@ pub fn import(name: &str, bytes: &[u8]) -> Result<Imported, ImportError> {
     })
 }
 
+/// Reads three finite numbers after a keyword on a text line (OBJ `v`/`vn`, STL `vertex`).
+pub(crate) fn xyz<'a>(
+    tokens: &mut impl Iterator<Item = &'a str>,
+    keyword: &str,
+    line: usize,
+) -> Result<glam::Vec3, ParseError> {
+    let mut v = [0.0f32; 3];
+    for (k, slot) in v.iter_mut().enumerate() {
+        let t = tokens.next().ok_or_else(|| {
+            ParseError::line(line, format!("'{keyword}' needs 3 numbers, found {k}"))
+        })?;
+        *slot = number(t)
+            .ok_or_else(|| ParseError::line(line, format!("'{t}' is not a finite number")))?;
+    }
+    Ok(glam::Vec3::from(v))
+}
+
 /// Parses a decimal number of a text format (finite only).
 pub(crate) fn number(token: &str) -> Option<f32> {
     let v: f32 = token.parse().ok()?;

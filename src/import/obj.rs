@@ -2,7 +2,7 @@
 //! negative (relative) indices, several objects and groups merged into one mesh. Texture
 //! coordinates, materials, smoothing groups, lines and points are read past.
 
-use super::{number, ParseError};
+use super::{xyz, ParseError};
 use crate::mesh::{Corner, Mesh, MAX_TRIANGLES, NO_NORMAL};
 use glam::Vec3;
 
@@ -45,16 +45,7 @@ pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
         };
         match keyword {
             "v" | "vn" => {
-                let mut xyz = [0.0f32; 3];
-                for (k, slot) in xyz.iter_mut().enumerate() {
-                    let t = tokens.next().ok_or_else(|| {
-                        ParseError::line(line, format!("'{keyword}' needs 3 numbers, found {k}"))
-                    })?;
-                    *slot = number(t).ok_or_else(|| {
-                        ParseError::line(line, format!("'{t}' is not a finite number"))
-                    })?;
-                }
-                let v = Vec3::from(xyz);
+                let v = xyz(&mut tokens, keyword, line)?;
                 if keyword == "v" {
                     mesh.positions.push(v);
                 } else {

@@ -1,7 +1,7 @@
 //! STL, binary and ASCII. STL stores separate triangles with facet normals; vertices are
 //! welded by exact position so smooth normals can be computed across triangles.
 
-use super::{number, ParseError};
+use super::{xyz, ParseError};
 use crate::mesh::{Mesh, MAX_TRIANGLES};
 use glam::Vec3;
 use std::collections::HashMap;
@@ -109,16 +109,7 @@ pub fn parse_ascii(bytes: &[u8]) -> Result<Mesh, ParseError> {
                 if !in_loop {
                     return Err(ParseError::line(line, "'vertex' outside 'outer loop'"));
                 }
-                let mut xyz = [0.0f32; 3];
-                for (k, slot) in xyz.iter_mut().enumerate() {
-                    let t = tokens.next().ok_or_else(|| {
-                        ParseError::line(line, format!("'vertex' needs 3 numbers, found {k}"))
-                    })?;
-                    *slot = number(t).ok_or_else(|| {
-                        ParseError::line(line, format!("'{t}' is not a finite number"))
-                    })?;
-                }
-                current.push(Vec3::from(xyz));
+                current.push(xyz(&mut tokens, "vertex", line)?);
             }
             Some("outer") => {
                 in_loop = true;
