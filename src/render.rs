@@ -118,11 +118,6 @@ impl Renderer {
         self.geometry = None;
     }
 
-    /// The prepared vertex buffer, if a frame was rendered.
-    pub fn vertex_buffer(&self) -> Option<&VertexBuffer> {
-        self.geometry.as_ref().map(|g| &g.vb)
-    }
-
     fn prepare_geometry(&mut self, scene: &Scene) -> Result<(), SceneError> {
         if let Some(g) = &self.geometry {
             if g.source == scene.mesh

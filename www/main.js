@@ -103,8 +103,9 @@ function frame() {
     canvas.getContext("2d").putImageData(new ImageData(bytes, w, h), 0, 0);
   });
   lastFrameMs = performance.now() - t0;
-  updateLink();
   if (!fast) {
+    // Encoding the link (JSON + zlib in wasm) waits for the frame after a drag, too.
+    updateLink();
     showStats();
     showMetrics();
     drawLegend();
