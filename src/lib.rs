@@ -19,13 +19,17 @@ pub mod lighting;
 pub mod measure;
 pub mod mesh;
 pub mod normals;
+pub mod plot;
 pub mod presets;
 pub mod raster;
 pub mod render;
+pub mod scanline;
 pub mod scene;
 pub mod shapes;
 pub mod share;
 pub mod sheet;
+pub mod surface;
+pub mod sweep;
 pub mod vertex_buffer;
 pub mod workbench;
 

@@ -6,7 +6,7 @@ use crate::camera::Projection;
 use crate::lighting::{Finish, Light, LightKind, Material, ReflectionModel};
 use crate::scene::{MeshSource, Scene};
 use crate::shapes::Shape;
-use crate::vertex_buffer::Triangulation;
+use crate::vertex_buffer::PolygonMode;
 
 /// A named scene with its caption.
 #[derive(Clone, Debug)]
@@ -66,7 +66,7 @@ pub fn presets() -> Vec<Preset> {
 
     let mut split = base.clone();
     split.mesh = MeshSource::Shape(Shape::QuadGrid { cells: 3 });
-    split.triangulation = Triangulation::Fan;
+    split.polygons = PolygonMode::AsAuthored;
     split.camera.distance = 2.0;
     split.material.base_color = "#5d7fb3".into();
     split.material.shininess = 40.0;

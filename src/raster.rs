@@ -115,7 +115,7 @@ impl<const N: usize> Default for Batch<N> {
 
 impl<const N: usize> Batch<N> {
     #[inline(always)]
-    fn push<S: FragmentShader<N>>(
+    pub(crate) fn push<S: FragmentShader<N>>(
         &mut self,
         target: &mut Target<'_>,
         i: usize,
@@ -382,4 +382,39 @@ pub fn fill<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
         row[2] += step_y[2];
     }
     shaded
+}
+
+/// Depth, 1/w and varyings (as stored: times 1/w in perspective mode) of the triangle at the
+/// screen point (x, y) from barycentric weights of its snapped corners, or `None` when the
+/// point is outside or the triangle has no area. The value the rasterizer's planes give at a
+/// pixel centre, at any sub-pixel position: surface probes read fixed points with it.
+pub fn sample_triangle<const N: usize>(
+    tri: [&RasterVertex<N>; 3],
+    x: f32,
+    y: f32,
+) -> Option<(f32, f32, [f32; N])> {
+    let s = 1.0 / ONE as f32;
+    let p = tri.map(|v| {
+        let [a, b] = snap_xy(v.x, v.y);
+        (a as f32 * s, b as f32 * s)
+    });
+    let area = (p[1].0 - p[0].0) * (p[2].1 - p[0].1) - (p[1].1 - p[0].1) * (p[2].0 - p[0].0);
+    if area == 0.0 {
+        return None;
+    }
+    let edge =
+        |a: (f32, f32), b: (f32, f32)| ((b.0 - a.0) * (y - a.1) - (b.1 - a.1) * (x - a.0)) / area;
+    let l = [edge(p[1], p[2]), edge(p[2], p[0]), edge(p[0], p[1])];
+    // A small tolerance keeps points on shared edges inside one of the two triangles.
+    if l.iter().any(|&w| w < -1e-5) {
+        return None;
+    }
+    let mix = |f: &dyn Fn(&RasterVertex<N>) -> f32| {
+        l[0] * f(tri[0]) + l[1] * f(tri[1]) + l[2] * f(tri[2])
+    };
+    let mut var = [0.0; N];
+    for (k, v) in var.iter_mut().enumerate() {
+        *v = mix(&|r| r.var[k]);
+    }
+    Some((mix(&|r| r.z), mix(&|r| r.inv_w), var))
 }

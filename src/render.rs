@@ -24,9 +24,10 @@ use crate::lighting::Lighting;
 use crate::mesh::Mesh;
 use crate::normals::compute_normals;
 use crate::raster::{fill, snap_xy, Batch, Coverage, Cull, FragmentShader, RasterVertex, Target};
+use crate::scanline::{fill_polygon, MAX_CORNERS};
 use crate::scene::{MeshSource, NormalSettings, NormalSource, Scene, SceneError};
 use crate::shapes::Shape;
-use crate::vertex_buffer::{Triangulation, VertexBuffer};
+use crate::vertex_buffer::{PolygonMode, VertexBuffer};
 use glam::{Mat3, Quat, Vec3, Vec4};
 use serde::{Deserialize, Serialize};
 
@@ -69,12 +70,12 @@ pub struct PanelStats {
 }
 
 /// The mesh as prepared for drawing, with the settings it was prepared from.
-struct Geometry {
+pub(crate) struct Geometry {
     source: MeshSource,
     normals: NormalSettings,
-    triangulation: Triangulation,
+    polygons: PolygonMode,
     generation: u64,
-    vb: VertexBuffer,
+    pub(crate) vb: VertexBuffer,
     shape: Option<Shape>,
 }
 
@@ -92,14 +93,14 @@ struct FrameKey {
 #[derive(Default)]
 pub struct Renderer {
     imported: Option<Mesh>,
-    geometry: Option<Geometry>,
+    pub(crate) geometry: Option<Geometry>,
     generation: u64,
     frame_key: Option<FrameKey>,
-    world_pos: Vec<Vec3>,
-    world_nrm: Vec<Vec3>,
+    pub(crate) world_pos: Vec<Vec3>,
+    pub(crate) world_nrm: Vec<Vec3>,
     clip: Vec<Vec4>,
-    outcodes: Vec<u8>,
-    screen: Vec<[f32; 4]>,
+    pub(crate) outcodes: Vec<u8>,
+    pub(crate) screen: Vec<[f32; 4]>,
     fixed: Vec<[i64; 2]>,
     vertex_color: Vec<Vec3>,
     face_color: Vec<u32>,
@@ -118,11 +119,9 @@ impl Renderer {
         self.geometry = None;
     }
 
-    fn prepare_geometry(&mut self, scene: &Scene) -> Result<(), SceneError> {
+    pub(crate) fn prepare_geometry(&mut self, scene: &Scene) -> Result<(), SceneError> {
         if let Some(g) = &self.geometry {
-            if g.source == scene.mesh
-                && g.normals == scene.normals
-                && g.triangulation == scene.triangulation
+            if g.source == scene.mesh && g.normals == scene.normals && g.polygons == scene.polygons
             {
                 return Ok(());
             }
@@ -146,12 +145,12 @@ impl Renderer {
         } else {
             mesh
         };
-        let vb = VertexBuffer::build(&mesh, scene.triangulation);
+        let vb = VertexBuffer::build(&mesh, scene.polygons);
         self.generation += 1;
         self.geometry = Some(Geometry {
             source: scene.mesh.clone(),
             normals: scene.normals,
-            triangulation: scene.triangulation,
+            polygons: scene.polygons,
             generation: self.generation,
             vb,
             shape,
@@ -161,7 +160,11 @@ impl Renderer {
 
     /// Validates the scene, prepares geometry and the per-frame vertex work, and sizes and
     /// clears the framebuffers.
-    fn begin(&mut self, scene: &Scene, fbs: &mut [&mut Framebuffer]) -> Result<Frame, SceneError> {
+    pub(crate) fn begin(
+        &mut self,
+        scene: &Scene,
+        fbs: &mut [&mut Framebuffer],
+    ) -> Result<Frame, SceneError> {
         scene.validate()?;
         self.prepare_geometry(scene)?;
         let (width, height) = (scene.panel.width as usize, scene.panel.height as usize);
@@ -228,7 +231,7 @@ impl Renderer {
             return Err(SceneError("no mesh prepared".into()));
         };
         let ctx = DrawContext {
-            tris: &geo.vb.triangles,
+            vb: &geo.vb,
             clip: &self.clip,
             outcodes: &self.outcodes,
             screen: &self.screen,
@@ -262,7 +265,7 @@ impl Renderer {
             |_| shader,
         );
         phong.copy_depth_from(gouraud);
-        let triangles = geo.vb.triangles.len() as u64;
+        let triangles = geo.vb.triangle_count() as u64;
         Ok([
             PanelStats {
                 lit_vertices: self.vertex_color.len() as u64,
@@ -305,11 +308,11 @@ impl Renderer {
         };
         let enc = SrgbEncoder::new();
         let mut stats = PanelStats {
-            triangles: geo.vb.triangles.len() as u64,
+            triangles: geo.vb.triangle_count() as u64,
             ..Default::default()
         };
         let ctx = DrawContext {
-            tris: &geo.vb.triangles,
+            vb: &geo.vb,
             clip: &self.clip,
             outcodes: &self.outcodes,
             screen: &self.screen,
@@ -353,13 +356,7 @@ impl Renderer {
                 }
                 stats.lit_vertices = vb.polygon_count() as u64;
                 let faces = &self.face_color;
-                let tri_face = &vb.triangle_face;
-                ctx.draw(
-                    &mut target,
-                    persp,
-                    |_| [],
-                    |t| Constant(faces[tri_face[t] as usize]),
-                )
+                ctx.draw(&mut target, persp, |_| [], |f| Constant(faces[f]))
             }
             ShadingMode::Gouraud => {
                 stats.lit_vertices = self.vertex_color.len() as u64;
@@ -468,7 +465,7 @@ impl Renderer {
 /// Viewport transform of a clip-space point inside the clip volume: (x px, y px down, NDC z,
 /// 1/w). Pixel centres are at half-integers.
 #[inline(always)]
-fn project(c: Vec4, w: f32, h: f32) -> [f32; 4] {
+pub(crate) fn project(c: Vec4, w: f32, h: f32) -> [f32; 4] {
     let iw = 1.0 / c.w;
     [
         (c.x * iw + 1.0) * 0.5 * w,
@@ -480,7 +477,7 @@ fn project(c: Vec4, w: f32, h: f32) -> [f32; 4] {
 
 /// Per-frame inputs shared by every triangle of a panel.
 struct DrawContext<'a> {
-    tris: &'a [[u32; 3]],
+    vb: &'a VertexBuffer,
     clip: &'a [Vec4],
     outcodes: &'a [u8],
     screen: &'a [[f32; 4]],
@@ -490,8 +487,8 @@ struct DrawContext<'a> {
 }
 
 impl DrawContext<'_> {
-    /// Draws every triangle with varyings from `varying(vertex)` and the fragment stage
-    /// `shader_for(triangle)`; returns fragments shaded.
+    /// Draws every triangle and scanline polygon with varyings from `varying(vertex)` and the
+    /// fragment stage `shader_for(face)`; returns fragments shaded.
     fn draw<const N: usize, S: FragmentShader<N>>(
         &self,
         target: &mut Target<'_>,
@@ -500,101 +497,56 @@ impl DrawContext<'_> {
         shader_for: impl Fn(usize) -> S,
     ) -> u64 {
         if perspective {
-            self.draw_with::<N, true, S>(target, varying, shader_for)
+            self.draw_with::<N, true, S>(target, &varying, shader_for)
         } else {
-            self.draw_with::<N, false, S>(target, varying, shader_for)
+            self.draw_with::<N, false, S>(target, &varying, shader_for)
         }
     }
 
     fn draw_with<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
         &self,
         target: &mut Target<'_>,
-        varying: impl Fn(u32) -> [f32; N],
+        varying: &impl Fn(u32) -> [f32; N],
         shader_for: impl Fn(usize) -> S,
     ) -> u64 {
         let mut shaded = 0u64;
-        let (w, h) = self.size;
         let mut batch = Batch::default();
         let mut last_shader = None;
-        for (t, tri) in self.tris.iter().enumerate() {
-            let codes = tri.map(|v| self.outcodes[v as usize]);
-            if codes[0] & codes[1] & codes[2] != 0 {
-                continue; // entirely outside one plane
-            }
-            if codes[0] | codes[1] | codes[2] == 0 {
-                // Coverage first: culled or pixel-less triangles never fetch varyings.
-                let Some(cov) = Coverage::new(
-                    tri.map(|v| self.fixed[v as usize]),
-                    self.cull,
-                    target.width,
-                    target.height,
-                ) else {
-                    continue;
-                };
-                let shader = shader_for(t);
-                let rv = tri.map(|v| {
-                    let s = self.screen[v as usize];
-                    let mut var = varying(v);
-                    if PERSP {
-                        for x in &mut var {
-                            *x *= s[3];
-                        }
-                    }
-                    RasterVertex {
-                        x: s[0],
-                        y: s[1],
-                        z: s[2],
-                        inv_w: s[3],
-                        var,
-                    }
-                });
-                shaded += u64::from(fill::<N, PERSP, S>(
+        let vb = self.vb;
+        for (tri, &face) in vb.triangles.iter().zip(&vb.triangle_face) {
+            let shader = shader_for(face as usize);
+            shaded +=
+                u64::from(self.triangle::<N, PERSP, S>(target, *tri, varying, &shader, &mut batch));
+            last_shader = Some(shader);
+        }
+        let mut rv = [RasterVertex {
+            x: 0.0,
+            y: 0.0,
+            z: 0.0,
+            inv_w: 0.0,
+            var: [0.0; N],
+        }; MAX_CORNERS];
+        for &face in &vb.scanline_faces {
+            let poly = vb.polygon(face as usize);
+            let shader = shader_for(face as usize);
+            if poly.iter().all(|&v| self.outcodes[v as usize] == 0) {
+                for (out, &v) in rv.iter_mut().zip(poly) {
+                    *out = self.raster_vertex::<N, PERSP>(v, varying);
+                }
+                shaded += u64::from(fill_polygon::<N, PERSP, S>(
                     target,
-                    &cov,
-                    [&rv[0], &rv[1], &rv[2]],
+                    &rv[..poly.len()],
+                    self.cull,
                     &shader,
                     &mut batch,
                 ));
-                last_shader = Some(shader);
-                continue;
-            }
-            let shader = shader_for(t);
-            let poly = ClipPolygon::clip(tri.map(|v| ClipVertex {
-                pos: self.clip[v as usize],
-                var: varying(v),
-            }));
-            if poly.len < 3 {
-                continue;
-            }
-            let mut rv = [RasterVertex {
-                x: 0.0,
-                y: 0.0,
-                z: 0.0,
-                inv_w: 0.0,
-                var: [0.0; N],
-            }; crate::clip::MAX_CLIPPED];
-            for (out, c) in rv.iter_mut().zip(&poly.verts[..poly.len]) {
-                let s = project(c.pos, w, h);
-                let mut var = c.var;
-                if PERSP {
-                    for x in &mut var {
-                        *x *= s[3];
-                    }
-                }
-                *out = RasterVertex {
-                    x: s[0],
-                    y: s[1],
-                    z: s[2],
-                    inv_w: s[3],
-                    var,
-                };
-            }
-            for i in 1..poly.len - 1 {
-                let tri = [&rv[0], &rv[i], &rv[i + 1]];
-                let p = tri.map(|v| snap_xy(v.x, v.y));
-                if let Some(cov) = Coverage::new(p, self.cull, target.width, target.height) {
-                    shaded +=
-                        u64::from(fill::<N, PERSP, S>(target, &cov, tri, &shader, &mut batch));
+            } else {
+                // Crossing a clip plane: drawn as authored (a fan), clipped per triangle.
+                for i in 1..poly.len() - 1 {
+                    let tri = [poly[0], poly[i], poly[i + 1]];
+                    shaded += u64::from(
+                        self.triangle::<N, PERSP, S>(target, tri, varying, &shader, &mut batch),
+                    );
                 }
             }
             last_shader = Some(shader);
@@ -604,17 +556,109 @@ impl DrawContext<'_> {
         }
         shaded
     }
+
+    /// A vertex inside the clip volume, projected, its varyings times 1/w in perspective mode.
+    #[inline(always)]
+    fn raster_vertex<const N: usize, const PERSP: bool>(
+        &self,
+        v: u32,
+        varying: &impl Fn(u32) -> [f32; N],
+    ) -> RasterVertex<N> {
+        let s = self.screen[v as usize];
+        let mut var = varying(v);
+        if PERSP {
+            for x in &mut var {
+                *x *= s[3];
+            }
+        }
+        RasterVertex {
+            x: s[0],
+            y: s[1],
+            z: s[2],
+            inv_w: s[3],
+            var,
+        }
+    }
+
+    /// Draws one triangle of render vertices, clipping it when it crosses a clip plane.
+    #[inline(always)]
+    fn triangle<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
+        &self,
+        target: &mut Target<'_>,
+        tri: [u32; 3],
+        varying: &impl Fn(u32) -> [f32; N],
+        shader: &S,
+        batch: &mut Batch<N>,
+    ) -> u32 {
+        let codes = tri.map(|v| self.outcodes[v as usize]);
+        if codes[0] & codes[1] & codes[2] != 0 {
+            return 0; // entirely outside one plane
+        }
+        if codes[0] | codes[1] | codes[2] == 0 {
+            // Coverage first: culled or pixel-less triangles never fetch varyings.
+            let Some(cov) = Coverage::new(
+                tri.map(|v| self.fixed[v as usize]),
+                self.cull,
+                target.width,
+                target.height,
+            ) else {
+                return 0;
+            };
+            let rv = tri.map(|v| self.raster_vertex::<N, PERSP>(v, varying));
+            return fill::<N, PERSP, S>(target, &cov, [&rv[0], &rv[1], &rv[2]], shader, batch);
+        }
+        let (w, h) = self.size;
+        let poly = ClipPolygon::clip(tri.map(|v| ClipVertex {
+            pos: self.clip[v as usize],
+            var: varying(v),
+        }));
+        if poly.len < 3 {
+            return 0;
+        }
+        let mut rv = [RasterVertex {
+            x: 0.0,
+            y: 0.0,
+            z: 0.0,
+            inv_w: 0.0,
+            var: [0.0; N],
+        }; crate::clip::MAX_CLIPPED];
+        for (out, c) in rv.iter_mut().zip(&poly.verts[..poly.len]) {
+            let s = project(c.pos, w, h);
+            let mut var = c.var;
+            if PERSP {
+                for x in &mut var {
+                    *x *= s[3];
+                }
+            }
+            *out = RasterVertex {
+                x: s[0],
+                y: s[1],
+                z: s[2],
+                inv_w: s[3],
+                var,
+            };
+        }
+        let mut shaded = 0;
+        for i in 1..poly.len - 1 {
+            let tri = [&rv[0], &rv[i], &rv[i + 1]];
+            let p = tri.map(|v| snap_xy(v.x, v.y));
+            if let Some(cov) = Coverage::new(p, self.cull, target.width, target.height) {
+                shaded += fill::<N, PERSP, S>(target, &cov, tri, shader, batch);
+            }
+        }
+        shaded
+    }
 }
 
 /// The per-frame set-up shared by every panel.
-struct Frame {
-    camera: CameraFrame,
-    rotation: Quat,
-    lighting: Lighting,
-    width: usize,
-    height: usize,
-    cull: Cull,
-    persp: bool,
+pub(crate) struct Frame {
+    pub(crate) camera: CameraFrame,
+    pub(crate) rotation: Quat,
+    pub(crate) lighting: Lighting,
+    pub(crate) width: usize,
+    pub(crate) height: usize,
+    pub(crate) cull: Cull,
+    pub(crate) persp: bool,
 }
 
 /// Gouraud and Phong at once: varyings 0..3 are the vertex colour, 3..9 the Phong normal and

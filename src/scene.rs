@@ -12,7 +12,7 @@ use crate::measure::DifferenceSettings;
 use crate::normals::NormalWeighting;
 use crate::render::ShadingMode;
 use crate::shapes::Shape;
-use crate::vertex_buffer::Triangulation;
+use crate::vertex_buffer::PolygonMode;
 use glam::Quat;
 use serde::{Deserialize, Serialize};
 use std::fmt;
@@ -99,8 +99,9 @@ pub struct Scene {
     pub mesh: MeshSource,
     /// Vertex normals.
     pub normals: NormalSettings,
-    /// How polygons become triangles.
-    pub triangulation: Triangulation,
+    /// How faces of more than three corners are drawn (split into triangles or filled whole).
+    #[serde(alias = "triangulation")]
+    pub polygons: PolygonMode,
     /// The camera.
     pub camera: Camera,
     /// The mesh's rotation as a quaternion (x, y, z, w); normalised on use.
@@ -133,7 +134,7 @@ impl Default for Scene {
             version: SCENE_VERSION,
             mesh: MeshSource::Shape(Shape::Icosphere { level: 2 }),
             normals: NormalSettings::default(),
-            triangulation: Triangulation::Fan,
+            polygons: PolygonMode::AsAuthored,
             camera: Camera::default(),
             rotation: [0.0, 0.0, 0.0, 1.0],
             lights: vec![

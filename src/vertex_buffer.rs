@@ -2,23 +2,55 @@
 //!
 //! A render vertex is a unique (position, normal) pair of the authored mesh, so per-vertex
 //! lighting is evaluated exactly once per render vertex and hard edges (split normals) stay
-//! hard. Polygons are triangulated here; their corner lists are kept as well, for the scanline
-//! polygon mode.
+//! hard. Faces with more than three corners are triangulated here as the scene's
+//! [`PolygonMode`] says, or kept whole for the scanline polygon fill; the corner lists of every
+//! face are kept either way (flat shading and surface probes use them).
 
 use crate::mesh::Mesh;
 use glam::Vec3;
 use serde::{Deserialize, Serialize};
 use std::collections::HashMap;
 
-/// How faces with more than three corners become triangles.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default)]
+/// How faces with more than three corners are drawn. Triangles always take the triangle path.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
 #[serde(rename_all = "snake_case")]
-pub enum Triangulation {
-    /// A fan from each face's first corner, in authored order.
+pub enum PolygonMode {
+    /// Split as authored: a fan from each face's first corner in the file's corner order, so
+    /// the author's order decides which diagonal a quad gets.
     #[default]
-    Fan,
-    /// Quads split along their shorter diagonal; larger polygons as a fan.
+    #[serde(alias = "fan")]
+    AsAuthored,
+    /// A fan of triangles around an added centre vertex (mean position, mean normal): no
+    /// diagonal is favoured, at the cost of one more lit vertex per face.
+    CentreFan,
+    /// Quads split along their shorter diagonal; larger polygons as authored.
     ShorterDiagonal,
+    /// No split: the polygon is filled scanline by scanline, values interpolated along its
+    /// left and right edges and then across each span (Gouraud 1971). The result depends on
+    /// the polygon's orientation on screen. Polygons of more than
+    /// [`crate::scanline::MAX_CORNERS`] corners, and those crossing a clip plane, are drawn as
+    /// authored instead.
+    Scanline,
+}
+
+impl PolygonMode {
+    /// Every mode, in menu order.
+    pub const ALL: [PolygonMode; 4] = [
+        PolygonMode::AsAuthored,
+        PolygonMode::CentreFan,
+        PolygonMode::ShorterDiagonal,
+        PolygonMode::Scanline,
+    ];
+
+    /// A label for menus.
+    pub fn label(self) -> &'static str {
+        match self {
+            PolygonMode::AsAuthored => "Split as authored (from first corner)",
+            PolygonMode::CentreFan => "Fan around an added centre",
+            PolygonMode::ShorterDiagonal => "Split along the shorter diagonal",
+            PolygonMode::Scanline => "Scanline polygon fill (no split)",
+        }
+    }
 }
 
 /// Buffers ready to draw. Invariant: every index is below `positions.len()`, and `positions`
@@ -37,13 +69,22 @@ pub struct VertexBuffer {
     pub polygon_vertices: Vec<u32>,
     /// `polygon_vertices[polygon_starts[f]..polygon_starts[f + 1]]` is face `f`.
     pub polygon_starts: Vec<u32>,
+    /// `triangles[triangle_starts[f]..triangle_starts[f + 1]]` came from face `f` (none for
+    /// scanline faces).
+    pub triangle_starts: Vec<u32>,
+    /// Faces drawn whole by the scanline polygon fill (none unless the mode is
+    /// [`PolygonMode::Scanline`]); their triangles are not in `triangles`.
+    pub scanline_faces: Vec<u32>,
+    /// Triangles the scanline faces would make if split (for cost figures).
+    pub scanline_triangles: usize,
 }
 
 impl VertexBuffer {
     /// Welds `mesh` (which must be valid and have a normal on every corner) and triangulates it.
-    pub fn build(mesh: &Mesh, triangulation: Triangulation) -> VertexBuffer {
+    pub fn build(mesh: &Mesh, mode: PolygonMode) -> VertexBuffer {
         let mut vb = VertexBuffer {
             polygon_starts: vec![0],
+            triangle_starts: vec![0],
             ..Default::default()
         };
         vb.polygon_vertices.reserve(mesh.corners.len());
@@ -69,21 +110,52 @@ impl VertexBuffer {
                 mesh.face_starts[f + 1] as usize,
             );
             vb.polygon_starts.push(e as u32);
-            let poly = &vb.polygon_vertices[s..e];
-            let quad_flip = triangulation == Triangulation::ShorterDiagonal && poly.len() == 4 && {
-                let p = |i: usize| vb.positions[poly[i] as usize];
-                (p(1) - p(3)).length_squared() < (p(0) - p(2)).length_squared()
-            };
-            if quad_flip {
-                vb.triangles.push([poly[1], poly[2], poly[3]]);
-                vb.triangles.push([poly[1], poly[3], poly[0]]);
-                vb.triangle_face.extend_from_slice(&[f as u32, f as u32]);
-            } else {
-                for i in 1..poly.len().saturating_sub(1) {
-                    vb.triangles.push([poly[0], poly[i], poly[i + 1]]);
-                    vb.triangle_face.push(f as u32);
+            let n = e - s;
+            let p = |i: usize| vb.positions[vb.polygon_vertices[s + i] as usize];
+            let face = f as u32;
+            match mode {
+                PolygonMode::Scanline if (4..=crate::scanline::MAX_CORNERS).contains(&n) => {
+                    vb.scanline_faces.push(face);
+                    vb.scanline_triangles += n - 2;
+                }
+                PolygonMode::ShorterDiagonal
+                    if n == 4
+                        && (p(1) - p(3)).length_squared() < (p(0) - p(2)).length_squared() =>
+                {
+                    let q = &vb.polygon_vertices[s..e];
+                    let (a, b, c, d) = (q[0], q[1], q[2], q[3]);
+                    vb.triangles.push([b, c, d]);
+                    vb.triangles.push([b, d, a]);
+                    vb.triangle_face.extend_from_slice(&[face, face]);
+                }
+                PolygonMode::CentreFan if n > 3 => {
+                    let mut pos = Vec3::ZERO;
+                    let mut nrm = Vec3::ZERO;
+                    for &v in &vb.polygon_vertices[s..e] {
+                        pos += vb.positions[v as usize];
+                        nrm += vb.normals[v as usize];
+                    }
+                    let centre = vb.positions.len() as u32;
+                    vb.positions.push(pos / n as f32);
+                    vb.normals.push(nrm.try_normalize().unwrap_or(Vec3::Z));
+                    for i in 0..n {
+                        let (a, b) = (
+                            vb.polygon_vertices[s + i],
+                            vb.polygon_vertices[s + (i + 1) % n],
+                        );
+                        vb.triangles.push([centre, a, b]);
+                        vb.triangle_face.push(face);
+                    }
+                }
+                _ => {
+                    let q = &vb.polygon_vertices[s..e];
+                    for i in 1..n.saturating_sub(1) {
+                        vb.triangles.push([q[0], q[i], q[i + 1]]);
+                        vb.triangle_face.push(face);
+                    }
                 }
             }
+            vb.triangle_starts.push(vb.triangles.len() as u32);
         }
         vb
     }
@@ -96,6 +168,22 @@ impl VertexBuffer {
     /// The render vertices of face `f`.
     pub fn polygon(&self, f: usize) -> &[u32] {
         &self.polygon_vertices[self.polygon_starts[f] as usize..self.polygon_starts[f + 1] as usize]
+    }
+
+    /// Triangles drawn plus the triangles the scanline faces stand for: the mesh's size in
+    /// triangles, whatever the polygon mode.
+    pub fn triangle_count(&self) -> usize {
+        self.triangles.len() + self.scanline_triangles
+    }
+
+    /// The triangles face `f` was split into (empty for scanline faces).
+    pub fn face_triangles(&self, f: usize) -> &[[u32; 3]] {
+        &self.triangles[self.triangle_starts[f] as usize..self.triangle_starts[f + 1] as usize]
+    }
+
+    /// True when face `f` is drawn by the scanline polygon fill.
+    pub fn is_scanline_face(&self, f: usize) -> bool {
+        self.scanline_faces.binary_search(&(f as u32)).is_ok()
     }
 
     /// Number of authored faces.

@@ -142,6 +142,33 @@ impl Workbench {
         Ok([g, p])
     }
 
+    /// Probe points spread over the scene's mesh (see [`Renderer::surface_points`]).
+    ///
+    /// # Errors
+    /// As [`Workbench::render`].
+    pub fn surface_points(
+        &mut self,
+        scene: &Scene,
+        max: usize,
+    ) -> Result<Vec<crate::surface::SurfacePoint>, SceneError> {
+        self.renderer.surface_points(scene, max)
+    }
+
+    /// Gouraud and Phong luminance at each probe in the last frame, which must be of `scene`
+    /// (see [`Renderer::sample_surface`]).
+    ///
+    /// # Errors
+    /// As [`Workbench::render`].
+    pub fn sample_surface(
+        &mut self,
+        scene: &Scene,
+        points: &[crate::surface::SurfacePoint],
+        out: &mut Vec<[f32; 2]>,
+    ) -> Result<(), SceneError> {
+        self.renderer
+            .sample_surface(scene, self.phong.depth(), points, out)
+    }
+
     fn panel_of(&self, mode: ShadingMode) -> Option<usize> {
         match mode {
             ShadingMode::Gouraud => Some(0),
