@@ -86,7 +86,7 @@ fn escape(s: &str) -> String {
 /// "Nice" tick positions (1, 2 or 5 times a power of ten) covering `lo..=hi`.
 fn ticks(lo: f64, hi: f64) -> Vec<f64> {
     let span = hi - lo;
-    if !(span > 0.0) || !span.is_finite() {
+    if span.is_nan() || span <= 0.0 || !span.is_finite() {
         return vec![lo];
     }
     let raw = span / 5.0;
@@ -106,7 +106,7 @@ fn ticks(lo: f64, hi: f64) -> Vec<f64> {
 
 fn tick_label(v: f64) -> String {
     let a = v.abs();
-    if a != 0.0 && (a >= 1e5 || a < 1e-3) {
+    if a != 0.0 && !(1e-3..1e5).contains(&a) {
         format!("{v:.0e}")
     } else if a >= 100.0 || v == libm::round(v) {
         format!("{v:.0}")
@@ -165,9 +165,13 @@ impl Frame {
         if !y1.is_finite() || y1 <= y0 {
             y1 = y0 + 1.0;
         }
-        let t = ticks(y0, y1 * 1.05);
-        y1 = t.last().copied().unwrap_or(y1).max(y1);
-        y0 = t.first().copied().unwrap_or(y0).min(y0);
+        // Head room above the highest value, rounded up to a whole tick step.
+        let t = ticks(y0, y1 * 1.1);
+        if let [a, b, ..] = t[..] {
+            let step = b - a;
+            y1 = libm::ceil(y1 * 1.1 / step - 1e-9) * step;
+            y0 = libm::floor(y0 / step + 1e-9) * step;
+        }
         let (l, r, top, b) = MARGIN;
         Frame {
             x: (x0, x1),
@@ -335,7 +339,7 @@ impl Plot {
                     }
                 }
             }
-            let (lx, ly) = (l + 8.0 + 150.0 * k as f64, t + 14.0);
+            let (lx, ly) = legend_at(r, self.series.len(), k);
             let _ = write!(
                 s,
                 r#"<line x1="{lx}" x2="{:.1}" y1="{ly}" y2="{ly}" stroke="{c}" stroke-width="2"{dash}/><text x="{:.1}" y="{:.1}" fill="{}">{}</text>"#,
@@ -433,7 +437,7 @@ impl Plot {
                     }
                 }
             }
-            let (lx, ly) = (l + 8.0 + 150.0 * k as f64, t + 14.0);
+            let (lx, ly) = legend_at(r, self.series.len(), k);
             line(&mut img, (lx, ly), (lx + 22.0, ly), series.color, 2, dash);
             img.text(
                 &series.name,
@@ -445,6 +449,11 @@ impl Plot {
         }
         img
     }
+}
+
+/// Where legend entry `k` of `n` starts: in the top margin, right-aligned to `right`.
+fn legend_at(right: f64, n: usize, k: usize) -> (f64, f64) {
+    (right - 120.0 * (n - k) as f64, 14.0)
 }
 
 /// A line `width` pixels thick, optionally dashed (on, off lengths in pixels), clipped.

@@ -73,6 +73,10 @@ pub fn presets() -> Vec<Preset> {
     split.lights = vec![light(LightKind::Point, 20.0, 25.0, 1.2)];
     split.lights[0].falloff = 0.6;
 
+    let mut rolling = split.clone();
+    rolling.polygons = PolygonMode::Scanline;
+    rolling.camera.roll_deg = 30.0;
+
     let mut close = base.clone();
     close.mesh = MeshSource::Shape(Shape::QuadGrid { cells: 1 });
     close.material = Material {
@@ -122,6 +126,12 @@ pub fn presets() -> Vec<Preset> {
             title: "Quads shade by how they are split",
             caption: "Per-vertex light on quads depends on which diagonal splits them and on the view's roll; per-pixel light barely notices.",
             scene: split,
+        },
+        Preset {
+            id: "rolling-quads",
+            title: "Quads that change as the view rolls",
+            caption: "Filled scanline by scanline without a split, a quad's inside depends on how it lies on screen: roll the view, or sweep the roll, and fixed points of the surface change.",
+            scene: rolling,
         },
         Preset {
             id: "close-point-light",

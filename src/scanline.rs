@@ -150,9 +150,8 @@ pub fn fill_polygon<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
     }
     let mut edges = [None::<Edge<N>>; MAX_CORNERS];
     let (mut min_y, mut max_y) = (i64::MAX, i64::MIN);
-    for i in 0..n {
-        let j = (i + 1) % n;
-        let (mut a, mut b) = (i, j);
+    for (i, slot) in edges.iter_mut().enumerate().take(n) {
+        let (mut a, mut b) = (i, (i + 1) % n);
         if p[a][1] == p[b][1] {
             continue; // horizontal edges cross no scanline
         }
@@ -163,7 +162,7 @@ pub fn fill_polygon<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
         let dy = p[b][1] - p[a][1];
         min_y = min_y.min(p[a][1]);
         max_y = max_y.max(p[b][1]);
-        edges[i] = Some(Edge {
+        *slot = Some(Edge {
             x0: p[a][0],
             y0: p[a][1],
             dx: p[b][0] - p[a][0],
@@ -235,8 +234,8 @@ pub fn fill_polygon<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
                     target.depth[i] = v.z;
                     if PERSP {
                         let wv = 1.0 / v.q;
-                        for k in 0..N {
-                            frag[k] = v.var[k] * wv;
+                        for (f, x) in frag.iter_mut().zip(&v.var) {
+                            *f = x * wv;
                         }
                     } else {
                         frag = v.var;

@@ -8,6 +8,7 @@
 
 use crate::measure::Comparer;
 use crate::scene::{MeshSource, Scene};
+use crate::sweep::{Sweep, SweepAxis, SweepMetric, SweepSettings};
 use crate::workbench::{Panel, Workbench};
 use wasm_bindgen::prelude::*;
 
@@ -31,6 +32,8 @@ pub struct Viewer {
     legend: Comparer,
     /// Name of the mesh file loaded into the workbench, if any.
     mesh_name: Option<String>,
+    /// The sweep in progress or last finished, if any.
+    sweep: Option<Sweep>,
 }
 
 impl Default for Viewer {
@@ -51,6 +54,7 @@ impl Viewer {
             bench: Workbench::new(),
             legend: Comparer::new(),
             mesh_name: None,
+            sweep: None,
         }
     }
 
@@ -274,5 +278,102 @@ impl Viewer {
     pub fn report(&self) -> Result<JsValue, JsValue> {
         let ser = serde_wasm_bindgen::Serializer::json_compatible();
         serde::Serialize::serialize(self.bench.report(), &ser).map_err(js_error)
+    }
+
+    /// Turns the mesh by `deg` degrees about its own up axis (object +y), as a turntable
+    /// does; the page's play button calls it once per animation frame.
+    pub fn spin(&mut self, deg: f32) {
+        if deg.is_finite() {
+            let q = self.scene.rotation_quat() * crate::scene::axis_angle(glam::Vec3::Y, deg);
+            self.scene.set_rotation(q);
+        }
+    }
+
+    /// Starts a sweep of the current scene: `axis` "turntable" or "roll", `steps` evenly
+    /// spaced over a full turn. Replaces any earlier sweep.
+    #[wasm_bindgen(js_name = startSweep)]
+    pub fn start_sweep(&mut self, axis: &str, steps: u32) -> Result<(), JsValue> {
+        let axis = match axis {
+            "turntable" => SweepAxis::Turntable,
+            "roll" => SweepAxis::Roll,
+            other => return Err(js_error(format!("no sweep axis '{other}'"))),
+        };
+        let settings = SweepSettings {
+            axis,
+            steps,
+            degrees: 360.0,
+        };
+        self.sweep = Some(Sweep::new(&self.scene, settings).map_err(js_error)?);
+        Ok(())
+    }
+
+    /// Renders and measures the next sweep step; false when the sweep is complete (or there
+    /// is none). The page calls it in slices between frames.
+    #[wasm_bindgen(js_name = sweepStep)]
+    pub fn sweep_step(&mut self) -> Result<bool, JsValue> {
+        let Some(sweep) = self.sweep.as_mut() else {
+            return Ok(false);
+        };
+        sweep.run_step(&mut self.bench).map_err(js_error)?;
+        Ok(!sweep.is_done())
+    }
+
+    /// Steps measured and steps in all, `[done, total]` (`[0, 0]` without a sweep).
+    #[wasm_bindgen(js_name = sweepProgress)]
+    pub fn sweep_progress(&self) -> Vec<u32> {
+        self.sweep.as_ref().map_or(vec![0, 0], |s| {
+            vec![s.steps().len() as u32, s.settings().steps]
+        })
+    }
+
+    /// Forgets the sweep.
+    #[wasm_bindgen(js_name = cancelSweep)]
+    pub fn cancel_sweep(&mut self) {
+        self.sweep = None;
+    }
+
+    /// The sweep's plot as SVG: `metric` "peak_luminance", "de00" or "probe_change",
+    /// `current` the step to mark (negative: none). Empty without a sweep.
+    #[wasm_bindgen(js_name = sweepPlot)]
+    pub fn sweep_plot(&self, metric: &str, width: u32, height: u32, current: i32) -> String {
+        let metric = match metric {
+            "de00" => SweepMetric::De00,
+            "probe_change" => SweepMetric::ProbeChange,
+            _ => SweepMetric::PeakLuminance,
+        };
+        self.sweep.as_ref().map_or_else(String::new, |s| {
+            s.plot(metric, u32::try_from(current).ok())
+                .to_svg(width, height)
+        })
+    }
+
+    /// The sweep's summary (highlight stability, orientation variance) as an object.
+    #[wasm_bindgen(js_name = sweepSummary)]
+    pub fn sweep_summary(&self) -> Result<JsValue, JsValue> {
+        let Some(sweep) = self.sweep.as_ref() else {
+            return Ok(JsValue::NULL);
+        };
+        let ser = serde_wasm_bindgen::Serializer::json_compatible();
+        serde::Serialize::serialize(&sweep.summary(), &ser).map_err(js_error)
+    }
+
+    /// The sweep's steps as CSV (the command line's `sweep --out` format).
+    #[wasm_bindgen(js_name = sweepCsv)]
+    pub fn sweep_csv(&self) -> String {
+        self.sweep.as_ref().map_or_else(String::new, Sweep::to_csv)
+    }
+
+    /// Shows step `step` of the sweep: the swept scene turned or rolled to that angle, at the
+    /// current panel size.
+    #[wasm_bindgen(js_name = sweepJump)]
+    pub fn sweep_jump(&mut self, step: u32) -> Result<(), JsValue> {
+        let Some(sweep) = self.sweep.as_ref() else {
+            return Err(js_error("no sweep to jump into"));
+        };
+        let mut scene = sweep.scene_at(step);
+        scene.panel = self.scene.panel;
+        scene.validate().map_err(js_error)?;
+        self.scene = scene;
+        Ok(())
     }
 }

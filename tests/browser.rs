@@ -584,12 +584,90 @@ async fn page_end_to_end() {
         "mesh= loads the hosted file: {info}"
     );
 
+    // A sweep: a roll sweep of the scanline-quad preset runs to completion in slices, its
+    // series equal the native sweep's (same CSV, byte for byte), the plot appears, and
+    // clicking a point of it shows that step's scene.
+    c.goto(&format!(
+        "{page}#s={}",
+        twinshade::share::encode(&{
+            let mut s = twinshade::presets::preset("rolling-quads")
+                .expect("preset")
+                .scene;
+            s.panel.width = PANEL.0;
+            s.panel.height = PANEL.1;
+            s
+        })
+    ))
+    .await
+    .expect("open the page");
+    wait_ready(&c).await;
+    let (before, _) = native_render(&c).await;
+    c.execute(
+        "document.getElementById('sweep-axis').value = 'roll';
+         document.getElementById('sweep-steps').value = '12';",
+        vec![],
+    )
+    .await
+    .expect("set the sweep");
+    c.find(Locator::Id("sweep"))
+        .await
+        .expect("sweep button")
+        .click()
+        .await
+        .expect("click sweep");
+    let deadline = Instant::now() + Duration::from_secs(60);
+    while eval(&c, "return document.body.dataset.sweep").await != json!("done") {
+        assert!(Instant::now() < deadline, "the sweep did not finish");
+        tokio::time::sleep(Duration::from_millis(100)).await;
+    }
+    let mut native = twinshade::sweep::Sweep::new(
+        &before,
+        twinshade::sweep::SweepSettings {
+            axis: twinshade::sweep::SweepAxis::Roll,
+            steps: 12,
+            degrees: 360.0,
+        },
+    )
+    .expect("native sweep");
+    native
+        .run(&mut Workbench::new(), |_, _| {})
+        .expect("native sweep runs");
+    let page_csv = eval(&c, "return window.twinshade.sweepCsv()").await;
+    assert_eq!(
+        page_csv.as_str(),
+        Some(native.to_csv().as_str()),
+        "the page's sweep equals the native one"
+    );
+    let picks = eval(
+        &c,
+        "return document.querySelectorAll('#sweep-plot svg rect[data-pick]').length",
+    )
+    .await;
+    assert_eq!(picks, json!(12), "the plot has a pick band per step");
+    let (_, _, shown) = canvas(&c, "gouraud").await;
+    c.find(Locator::Css("#sweep-plot svg rect[data-pick=\"3\"]"))
+        .await
+        .expect("plot band of step 3")
+        .click()
+        .await
+        .expect("click the plot");
+    wait_changed(&c, "gouraud", &shown, "clicking the plot").await;
+    let (after, _) = native_render(&c).await;
+    assert_eq!(
+        after.camera.roll_deg,
+        native.scene_at(3).camera.roll_deg,
+        "the click shows step 3 (roll {} + 90 degrees)",
+        before.camera.roll_deg
+    );
+    assert_same_as_native(&c, "after picking a sweep step").await;
+
     // Keyboard only: Tab reaches every control (and the panels, which turn with arrow keys).
     c.goto(&page).await.expect("open the page");
     wait_ready(&c).await;
     let wanted = eval(
         &c,
         "return [...document.querySelectorAll('select, input, button, canvas[data-panel]')]
+           .filter((e) => !e.closest('[hidden]'))
            .map((e) => e.id || e.dataset.panel)",
     )
     .await;

@@ -380,6 +380,7 @@ function syncControls() {
   $("normal-weighting").value = s.normals.weighting;
   $("crease").value = s.normals.crease_deg;
   $("crease-out").textContent = s.normals.crease_deg >= 180 ? "smooth" : `${Math.round(s.normals.crease_deg)}°`;
+  $("polygons").value = s.polygons;
   const m = s.material;
   $("base").value = m.base_color;
   $("finish").value = m.finish;
@@ -422,6 +423,7 @@ function bindControls() {
   on("normal-source", "change", (s) => { s.normals.source = $("normal-source").value; });
   on("normal-weighting", "change", (s) => { s.normals.weighting = $("normal-weighting").value; });
   on("crease", "input", (s) => { s.normals.crease_deg = +$("crease").value; });
+  on("polygons", "change", (s) => { s.polygons = $("polygons").value; });
   on("base", "input", (s) => { s.material.base_color = $("base").value; });
   on("finish", "change", (s) => { s.material.finish = $("finish").value; });
   on("model", "change", (s) => { s.model = $("model").value; });
@@ -481,6 +483,170 @@ function bindTurning() {
       }
     });
   }
+}
+
+// Turntable play: the mesh turns about its own up axis at TURN_DEG_PER_S. With
+// prefers-reduced-motion the page never starts it by itself (?play is ignored) and, when the
+// user presses Play, it moves in discrete 15-degree steps once a second instead of gliding.
+const TURN_DEG_PER_S = 40;
+const reducedMotion = matchMedia("(prefers-reduced-motion: reduce)");
+let playing = false;
+let playClock = 0;
+let playTimer = 0;
+
+function playTick(now) {
+  if (!playing) return;
+  const dt = Math.min(0.1, (now - playClock) / 1000);
+  playClock = now;
+  viewer.spin(TURN_DEG_PER_S * dt);
+  requestRender(true);
+  requestAnimationFrame(playTick);
+}
+
+function setPlaying(on) {
+  playing = on;
+  $("play").setAttribute("aria-pressed", String(on));
+  $("play").textContent = on ? "Pause turntable" : "Play turntable";
+  clearInterval(playTimer);
+  if (!on) {
+    requestRender();
+    return;
+  }
+  if (reducedMotion.matches) {
+    $("play-note").textContent = "Reduced motion is on: the mesh steps 15° each second.";
+    playTimer = setInterval(() => {
+      viewer.spin(15);
+      requestRender();
+    }, 1000);
+  } else {
+    playClock = performance.now();
+    requestAnimationFrame(playTick);
+  }
+}
+
+// Sweeps run in slices of SLICE_MS between frames, so the page keeps answering; the plot
+// is SVG drawn by the wasm module, and clicking it (or arrow keys on it) shows that step.
+const SLICE_MS = 12;
+let sweeping = false;
+let sweepCurrent = -1;
+
+function showSweepPlot() {
+  const box = $("sweep-plot");
+  const width = Math.max(320, Math.min(960, Math.floor($("sweep-result").getBoundingClientRect().width || 720)));
+  box.innerHTML = viewer.sweepPlot($("sweep-metric").value, width, 300, sweepCurrent);
+  const svg = box.querySelector("svg");
+  if (svg) svg.dataset.current = String(sweepCurrent);
+}
+
+function showSweepSummary() {
+  const s = viewer.sweepSummary();
+  const dl = $("sweep-summary");
+  dl.replaceChildren();
+  if (!s) return;
+  const f = (x, d = 4) => x.toFixed(d);
+  term(dl, "Steps", `${s.steps_done} of ${s.settings.steps} (${s.settings.axis})`, "steps");
+  term(dl, "Highlight stability (CoV of the peak)", `Gouraud ${f(s.highlight_cov[0])} · Phong ${f(s.highlight_cov[1])}`, "cov");
+  term(dl, "Peak luminance range", `Gouraud ${f(s.peak_min[0], 3)}–${f(s.peak_max[0], 3)} · Phong ${f(s.peak_min[1], 3)}–${f(s.peak_max[1], 3)}`, "peak-range");
+  term(dl, "dE00 between the panels", `mean ${f(s.de00_mean, 2)} · worst p95 ${f(s.de00_p95_max, 2)}`, "sweep-de00");
+  if (s.orientation_variance) {
+    const v = s.orientation_variance;
+    term(dl, "Orientation variance (largest change of Y at a fixed point)",
+      `Gouraud ${f(v[0], 5)} · Phong ${f(v[1], 5)} over ${s.probes_tracked} points (1/255 = 0.00392)`, "orientation");
+  }
+}
+
+function sweepDone(message) {
+  sweeping = false;
+  $("sweep").textContent = "Run sweep";
+  $("sweep-progress").hidden = true;
+  $("sweep-status").textContent = message;
+  document.body.dataset.sweep = "done";
+}
+
+function sweepSlice() {
+  if (!sweeping) return;
+  const t0 = performance.now();
+  let more = true;
+  try {
+    while (more && performance.now() - t0 < SLICE_MS) more = viewer.sweepStep();
+  } catch (e) {
+    sweepDone("");
+    showProblem(`Sweep stopped: ${e.message || e}`);
+    return;
+  }
+  const [done, total] = viewer.sweepProgress();
+  $("sweep-progress").value = done / Math.max(1, total);
+  $("sweep-status").textContent = `${done} of ${total} steps`;
+  $("sweep-result").hidden = false;
+  showSweepPlot();
+  showSweepSummary();
+  if (more) {
+    setTimeout(sweepSlice, 0);
+  } else {
+    sweepDone(`${total} steps measured. Click the plot to show an angle.`);
+    requestRender(); // the panels show the current scene again
+  }
+}
+
+function startSweep() {
+  if (sweeping) {
+    sweepDone("Stopped; the plot shows the steps measured so far.");
+    requestRender();
+    return;
+  }
+  const steps = Math.round(+$("sweep-steps").value);
+  try {
+    viewer.startSweep($("sweep-axis").value, steps);
+  } catch (e) {
+    showProblem(`Cannot sweep: ${e.message || e}`);
+    return;
+  }
+  showProblem("");
+  if (playing) setPlaying(false);
+  sweeping = true;
+  sweepCurrent = -1;
+  document.body.dataset.sweep = "running";
+  $("sweep").textContent = "Stop sweep";
+  $("sweep-progress").hidden = false;
+  $("sweep-progress").value = 0;
+  if ($("sweep-axis").value === "roll") $("sweep-metric").value = "probe_change";
+  else if ($("sweep-metric").value === "probe_change") $("sweep-metric").value = "peak_luminance";
+  setTimeout(sweepSlice, 0);
+}
+
+function jumpToStep(step) {
+  const [done] = viewer.sweepProgress();
+  if (!(step >= 0 && step < done)) return;
+  try {
+    viewer.sweepJump(step);
+  } catch (e) {
+    showProblem(`${e.message || e}`);
+    return;
+  }
+  sweepCurrent = step;
+  $("preset").value = "";
+  syncControls();
+  showSweepPlot();
+  requestRender();
+}
+
+function bindMotion() {
+  $("play").addEventListener("click", () => setPlaying(!playing));
+  $("sweep").addEventListener("click", startSweep);
+  $("sweep-metric").addEventListener("change", showSweepPlot);
+  $("sweep-plot").addEventListener("click", (e) => {
+    const hit = e.target.closest && e.target.closest("[data-pick]");
+    if (hit) jumpToStep(+hit.dataset.pick);
+  });
+  $("sweep-plot").addEventListener("keydown", (e) => {
+    const step = { ArrowLeft: -1, ArrowRight: 1 }[e.key];
+    if (step === undefined) return;
+    const [done] = viewer.sweepProgress();
+    if (done) jumpToStep((Math.max(0, sweepCurrent) + step + done) % done);
+    e.preventDefault();
+  });
+  $("save-sweep").addEventListener("click", () =>
+    download("twinshade-sweep.csv", new Blob([viewer.sweepCsv()], { type: "text/csv" })));
 }
 
 /** Sizes the panels to the layout, in device pixels so they stay sharp on high-DPI screens. */
@@ -551,14 +717,25 @@ async function start() {
   bindMeshFiles();
   $("copy-link").addEventListener("click", copyLink);
   bindTurning();
+  bindMotion();
   syncControls();
   fitPanels();
   new ResizeObserver(fitPanels).observe($("panels"));
   requestRender();
+  // ?sweep=turntable or ?sweep=roll:36 runs a sweep on opening (docs that show the plot).
+  const sweepQuery = /^(turntable|roll)(?::(\d+))?$/.exec(q.get("sweep") || "");
+  if (sweepQuery) {
+    $("sweep-axis").value = sweepQuery[1];
+    if (sweepQuery[2]) $("sweep-steps").value = sweepQuery[2];
+    startSweep();
+  }
+  // ?play starts the turntable (docs and embeds), unless the reader prefers reduced motion.
+  if (q.has("play") && !reducedMotion.matches) setPlaying(true);
   // For tests and the console: read-only access plus turning.
   window.twinshade = {
     sceneJson: () => viewer.sceneJson(),
     report: () => viewer.report(),
+    sweepCsv: () => viewer.sweepCsv(),
     loadMesh: (name, bytes) => loadMeshBytes(name, bytes),
     sheetDataUrl: () => {
       const c = sheetCanvas();

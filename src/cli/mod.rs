@@ -1,7 +1,8 @@
 //! The native command line: argument parsing and dispatch (thin; the work is in the core).
 //!
 //! Commands: `serve` (build the page and serve it on 127.0.0.1), `render` (the panels as PNG),
-//! `scene` (print a scene as JSON), `build-web` (a static folder for any web host). Errors go
+//! `sweep` (measure a turntable or roll rotation step by step), `scene` (print a scene as
+//! JSON), `build-web` (a static folder for any web host). Errors go
 //! to stderr with a non-zero exit; nothing panics on bad input.
 
 mod png_out;
@@ -57,6 +58,43 @@ enum Command {
         #[arg(long)]
         metrics: Option<PathBuf>,
     },
+    /// Turn the mesh (turntable) or roll the view through evenly spaced steps and measure each:
+    /// panel peaks, dE00 between the panels, and for roll the change at fixed surface points.
+    Sweep {
+        /// Scene file (JSON); the built-in default scene when absent.
+        #[arg(long, conflicts_with = "preset")]
+        scene: Option<PathBuf>,
+        /// A built-in preset instead of a scene file (see `twinshade presets`).
+        #[arg(long)]
+        preset: Option<String>,
+        /// A mesh file (OBJ, STL, PLY, glTF or GLB) instead of the scene's shape.
+        #[arg(long)]
+        mesh: Option<PathBuf>,
+        /// Panel size, WIDTHxHEIGHT (overrides the scene's).
+        #[arg(long, value_parser = parse_size)]
+        size: Option<(u32, u32)>,
+        /// The rotation: the mesh about its up axis, or the view about its axis.
+        #[arg(long, value_enum, default_value_t = AxisArg::Turntable)]
+        axis: AxisArg,
+        /// Number of steps (1 to 3600), evenly spaced over --degrees.
+        #[arg(long, default_value_t = 72)]
+        steps: u32,
+        /// Angle covered, degrees (more than 0, at most 360).
+        #[arg(long, default_value_t = 360.0)]
+        degrees: f32,
+        /// The per-step figures as CSV.
+        #[arg(long)]
+        out: PathBuf,
+        /// Also draw a plot, SVG or PNG by the file's extension.
+        #[arg(long)]
+        plot: Option<PathBuf>,
+        /// What the plot shows.
+        #[arg(long, value_enum, default_value_t = MetricArg::Peak)]
+        metric: MetricArg,
+        /// Also write the summary (highlight stability, orientation variance) as JSON.
+        #[arg(long)]
+        summary: Option<PathBuf>,
+    },
     /// Compare two same-size sRGB PNG images (e.g. captures from an engine) in dE00.
     Compare {
         /// Image A (PNG).
@@ -96,6 +134,22 @@ enum Command {
         #[arg(long)]
         out: PathBuf,
     },
+}
+
+#[derive(Clone, Copy, clap::ValueEnum)]
+enum AxisArg {
+    Turntable,
+    Roll,
+}
+
+#[derive(Clone, Copy, clap::ValueEnum)]
+enum MetricArg {
+    /// Peak luminance of each panel.
+    Peak,
+    /// Mean and p95 dE00 between the panels.
+    De00,
+    /// Largest change at fixed surface points (roll).
+    Probes,
 }
 
 fn parse_size(s: &str) -> Result<(u32, u32), String> {
@@ -145,14 +199,45 @@ fn run(command: Command) -> Result<(), String> {
             out_dir,
             metrics,
         } => {
-            let scene = match (scene, preset) {
-                (Some(p), _) => load_scene(&p)?,
-                (None, Some(id)) => crate::presets::preset(&id)
-                    .map(|p| p.scene)
-                    .ok_or_else(|| format!("no preset '{id}' (see `twinshade presets`)"))?,
-                (None, None) => Scene::default(),
-            };
+            let scene = pick_scene(scene, preset)?;
             render(scene, mesh.as_deref(), size, &out_dir, metrics.as_deref())
+        }
+        Command::Sweep {
+            scene,
+            preset,
+            mesh,
+            size,
+            axis,
+            steps,
+            degrees,
+            out,
+            plot,
+            metric,
+            summary,
+        } => {
+            let (scene, bench, _) = prepare(pick_scene(scene, preset)?, mesh.as_deref(), size)?;
+            let settings = crate::sweep::SweepSettings {
+                axis: match axis {
+                    AxisArg::Turntable => crate::sweep::SweepAxis::Turntable,
+                    AxisArg::Roll => crate::sweep::SweepAxis::Roll,
+                },
+                steps,
+                degrees,
+            };
+            let metric = match metric {
+                MetricArg::Peak => crate::sweep::SweepMetric::PeakLuminance,
+                MetricArg::De00 => crate::sweep::SweepMetric::De00,
+                MetricArg::Probes => crate::sweep::SweepMetric::ProbeChange,
+            };
+            sweep(
+                &scene,
+                bench,
+                settings,
+                &out,
+                plot.as_deref(),
+                metric,
+                summary.as_deref(),
+            )
         }
         Command::Presets => {
             for p in crate::presets::presets() {
@@ -198,6 +283,166 @@ fn run(command: Command) -> Result<(), String> {
     }
 }
 
+/// The scene named on the command line: a file, a preset or the default.
+fn pick_scene(file: Option<PathBuf>, preset: Option<String>) -> Result<Scene, String> {
+    match (file, preset) {
+        (Some(p), _) => load_scene(&p),
+        (None, Some(id)) => crate::presets::preset(&id)
+            .map(|p| p.scene)
+            .ok_or_else(|| format!("no preset '{id}' (see `twinshade presets`)")),
+        (None, None) => Ok(Scene::default()),
+    }
+}
+
+/// Applies `--size` and `--mesh` to a scene and returns it with a workbench holding the mesh
+/// and the mesh's counts.
+fn prepare(
+    mut scene: Scene,
+    mesh: Option<&Path>,
+    size: Option<(u32, u32)>,
+) -> Result<(Scene, Workbench, Option<crate::import::MeshInfo>), String> {
+    if let Some((w, h)) = size {
+        scene.panel.width = w;
+        scene.panel.height = h;
+    }
+    scene.validate().map_err(|e| e.to_string())?;
+    let mut bench = Workbench::new();
+    let mut info = None;
+    if let Some(path) = mesh {
+        let imported = load_mesh(path)?;
+        info = Some(imported.info());
+        scene.mesh = crate::scene::MeshSource::File {
+            name: imported.mesh.name.clone(),
+        };
+        bench.set_file_mesh(imported.mesh);
+    }
+    Ok((scene, bench, info))
+}
+
+/// Reports progress: a bar on a terminal, a line per quarter otherwise.
+struct Progress {
+    bar: Option<indicatif::ProgressBar>,
+    label: &'static str,
+    last_quarter: u64,
+}
+
+impl Progress {
+    fn new(label: &'static str, total: u64) -> Progress {
+        use std::io::IsTerminal;
+        let bar = std::io::stderr().is_terminal().then(|| {
+            let b = indicatif::ProgressBar::new(total);
+            if let Ok(style) = indicatif::ProgressStyle::with_template(
+                "{msg} [{bar:40}] {pos}/{len} ({elapsed}, {eta} left)",
+            ) {
+                b.set_style(style.progress_chars("=> "));
+            }
+            b.set_message(label);
+            b
+        });
+        Progress {
+            bar,
+            label,
+            last_quarter: 0,
+        }
+    }
+
+    fn update(&mut self, done: u64, total: u64) {
+        match &self.bar {
+            Some(b) => b.set_position(done),
+            None => {
+                let quarter = done * 4 / total.max(1);
+                if quarter > self.last_quarter {
+                    self.last_quarter = quarter;
+                    eprintln!("twinshade: {} {done}/{total}", self.label);
+                }
+            }
+        }
+    }
+
+    fn finish(&self) {
+        if let Some(b) = &self.bar {
+            b.finish_and_clear();
+        }
+    }
+}
+
+fn write_plot(path: &Path, plot: &crate::plot::Plot) -> Result<(), String> {
+    let ext = path
+        .extension()
+        .map(|e| e.to_string_lossy().to_ascii_lowercase());
+    match ext.as_deref() {
+        Some("svg") => std::fs::write(path, plot.to_svg(800, 420))
+            .map_err(|e| format!("cannot write {}: {e}", path.display()))?,
+        Some("png") => {
+            let img = plot.to_image(800, 420);
+            png_out::write_png(path, img.width, img.height, &img.rgba)?;
+        }
+        _ => {
+            return Err(format!(
+                "the plot file {} must end in .svg or .png",
+                path.display()
+            ))
+        }
+    }
+    eprintln!("twinshade: wrote {}", path.display());
+    Ok(())
+}
+
+#[allow(clippy::too_many_arguments)] // one per command-line option
+fn sweep(
+    scene: &Scene,
+    mut bench: Workbench,
+    settings: crate::sweep::SweepSettings,
+    out: &Path,
+    plot: Option<&Path>,
+    metric: crate::sweep::SweepMetric,
+    summary: Option<&Path>,
+) -> Result<(), String> {
+    let mut sweep = crate::sweep::Sweep::new(scene, settings).map_err(|e| e.to_string())?;
+    let start = std::time::Instant::now();
+    let mut progress = Progress::new("sweep", u64::from(settings.steps));
+    let result = sweep.run(&mut bench, |done, total| {
+        progress.update(u64::from(done), u64::from(total));
+    });
+    progress.finish();
+    result.map_err(|e| e.to_string())?;
+    std::fs::write(out, sweep.to_csv())
+        .map_err(|e| format!("cannot write {}: {e}", out.display()))?;
+    eprintln!(
+        "twinshade: {} steps of {} in {:.2} s; wrote {}",
+        settings.steps,
+        settings.axis.name(),
+        start.elapsed().as_secs_f64(),
+        out.display()
+    );
+    if let Some(path) = plot {
+        write_plot(path, &sweep.plot(metric, None))?;
+    }
+    let s = sweep.summary();
+    println!(
+        "highlight stability (CoV of the peak): Gouraud {:.4}, Phong {:.4}",
+        s.highlight_cov[0], s.highlight_cov[1]
+    );
+    println!(
+        "peak luminance: Gouraud {:.4}..{:.4}, Phong {:.4}..{:.4}",
+        s.peak_min[0], s.peak_max[0], s.peak_min[1], s.peak_max[1]
+    );
+    println!(
+        "dE00 {:?} vs {:?}: mean {:.3}, worst p95 {:.3}",
+        s.pair[0], s.pair[1], s.de00_mean, s.de00_p95_max
+    );
+    if let Some(v) = s.orientation_variance {
+        println!(
+            "orientation variance (largest change of Y at a fixed point, {} probes): Gouraud {:.5}, Phong {:.5}",
+            s.probes_tracked, v[0], v[1]
+        );
+    }
+    if let Some(path) = summary {
+        write_json(path, &s)?;
+    }
+    Ok(())
+}
+
 /// Reads and validates a scene file.
 fn load_scene(path: &Path) -> Result<Scene, String> {
     let text = std::fs::read_to_string(path)
@@ -238,29 +483,15 @@ struct RenderMetrics<'a> {
 }
 
 fn render(
-    mut scene: Scene,
+    scene: Scene,
     mesh: Option<&Path>,
     size: Option<(u32, u32)>,
     out_dir: &Path,
     metrics: Option<&Path>,
 ) -> Result<(), String> {
-    if let Some((w, h)) = size {
-        scene.panel.width = w;
-        scene.panel.height = h;
-    }
-    scene.validate().map_err(|e| e.to_string())?;
+    let (scene, mut bench, mesh_info) = prepare(scene, mesh, size)?;
     std::fs::create_dir_all(out_dir)
         .map_err(|e| format!("cannot create {}: {e}", out_dir.display()))?;
-    let mut bench = Workbench::new();
-    let mut mesh_info = None;
-    if let Some(path) = mesh {
-        let imported = load_mesh(path)?;
-        mesh_info = Some(imported.info());
-        scene.mesh = crate::scene::MeshSource::File {
-            name: imported.mesh.name.clone(),
-        };
-        bench.set_file_mesh(imported.mesh);
-    }
     let report = *bench.render(&scene).map_err(|e| e.to_string())?;
     for (panel, name) in [
         (Panel::Gouraud, "gouraud.png"),
