@@ -78,5 +78,52 @@ fn page_frames(c: &mut Criterion) {
     group.finish();
 }
 
-criterion_group!(benches, frames, page_frames);
+/// A 360-step turntable sweep at 256x256 against 360 single frames of the same scene (issue
+/// goal: the sweep costs at most 1.2 times the frames). A "frame" is what a sweep step
+/// renders: both panels and the comparison, with the mesh turned one degree.
+fn sweep_cost(c: &mut Criterion) {
+    use twinshade::sweep::{Sweep, SweepAxis, SweepSettings};
+    let mut group = c.benchmark_group("sweep_256x256");
+    group.sample_size(10);
+    for (name, mut scene) in [
+        ("default", Scene::default()),
+        ("bench_L5", Scene::bench(5, 256, 256, 0)),
+    ] {
+        scene.panel.width = 256;
+        scene.panel.height = 256;
+        let mut bench = Workbench::new();
+        bench.render(&scene).expect("renders");
+        let turned: Vec<Scene> = (0..360)
+            .map(|d| {
+                let mut s = scene.clone();
+                s.set_rotation(
+                    scene.rotation_quat() * twinshade::scene::axis_angle(glam::Vec3::Y, d as f32),
+                );
+                s
+            })
+            .collect();
+        group.bench_function(BenchmarkId::new("360_frames", name), |b| {
+            b.iter(|| {
+                for s in &turned {
+                    bench.render(s).expect("frame");
+                }
+            })
+        });
+        let settings = SweepSettings {
+            axis: SweepAxis::Turntable,
+            steps: 360,
+            degrees: 360.0,
+        };
+        group.bench_function(BenchmarkId::new("360_step_sweep", name), |b| {
+            b.iter(|| {
+                let mut sweep = Sweep::new(&scene, settings).expect("sweep");
+                sweep.run(&mut bench, |_, _| {}).expect("runs");
+                sweep.summary()
+            })
+        });
+    }
+    group.finish();
+}
+
+criterion_group!(benches, frames, page_frames, sweep_cost);
 criterion_main!(benches);

@@ -262,3 +262,108 @@ fn render_a_mesh_file_reports_its_counts() {
     );
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn sweep_writes_the_library_series_and_plots() {
+    let dir = temp_dir("sweep");
+    std::fs::create_dir_all(&dir).expect("temp dir");
+    let csv = dir.join("roll.csv");
+    let svg = dir.join("roll.svg");
+    let png = dir.join("turn.png");
+    let summary = dir.join("roll.json");
+    let out = twinshade(&[
+        "sweep",
+        "--preset",
+        "rolling-quads",
+        "--size",
+        "160x120",
+        "--axis",
+        "roll",
+        "--steps",
+        "8",
+        "--out",
+        csv.to_str().expect("utf-8"),
+        "--plot",
+        svg.to_str().expect("utf-8"),
+        "--metric",
+        "probes",
+        "--summary",
+        summary.to_str().expect("utf-8"),
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    // Not a terminal here: plain progress lines instead of a bar.
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("sweep 8/8"), "{err}");
+    let stdout = String::from_utf8_lossy(&out.stdout);
+    assert!(stdout.contains("orientation variance"), "{stdout}");
+
+    let mut scene = twinshade::presets::preset("rolling-quads")
+        .expect("preset")
+        .scene;
+    scene.panel.width = 160;
+    scene.panel.height = 120;
+    let mut sweep = twinshade::sweep::Sweep::new(
+        &scene,
+        twinshade::sweep::SweepSettings {
+            axis: twinshade::sweep::SweepAxis::Roll,
+            steps: 8,
+            degrees: 360.0,
+        },
+    )
+    .expect("sweep");
+    sweep
+        .run(&mut twinshade::Workbench::new(), |_, _| {})
+        .expect("runs");
+    assert_eq!(
+        std::fs::read_to_string(&csv).expect("csv written"),
+        sweep.to_csv()
+    );
+    assert_eq!(sweep.to_csv().lines().count(), 9);
+    let plot = std::fs::read_to_string(&svg).expect("svg written");
+    assert!(plot.starts_with("<svg") && plot.ends_with("</svg>"));
+    assert_eq!(plot.matches("<rect data-pick=").count(), 8);
+    let json: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(&summary).expect("summary written"))
+            .expect("summary is JSON");
+    assert!(json["orientation_variance"][0]
+        .as_f64()
+        .is_some_and(|v| v > 1.0 / 255.0));
+
+    let out = twinshade(&[
+        "sweep",
+        "--steps",
+        "6",
+        "--size",
+        "96x72",
+        "--out",
+        csv.to_str().expect("utf-8"),
+        "--plot",
+        png.to_str().expect("utf-8"),
+    ]);
+    assert!(out.status.success());
+    let (w, h, _) = read_png(&png).expect("png plot");
+    assert_eq!((w, h), (800, 420));
+
+    // Bad settings: a message and a failing exit code, no output file.
+    for (args, says) in [
+        (vec!["--steps", "0"], "1 to 3600 steps"),
+        (vec!["--degrees", "720"], "at most 360"),
+        (vec!["--plot", "x.gif"], "must end in .svg or .png"),
+    ] {
+        let mut all = vec!["sweep", "--size", "32x24", "--out"];
+        let target = dir.join("bad.csv");
+        let target = target.to_str().expect("utf-8").to_string();
+        all.push(&target);
+        all.extend(args);
+        let out = twinshade(&all);
+        assert_eq!(out.status.code(), Some(1), "{all:?}");
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert!(err.contains(says), "{all:?}: {err}");
+        assert!(!dir.join("bad.csv").exists(), "{all:?} wrote its CSV");
+    }
+    let _ = std::fs::remove_dir_all(&dir);
+}

@@ -366,23 +366,29 @@ impl Progress {
     }
 }
 
-fn write_plot(path: &Path, plot: &crate::plot::Plot) -> Result<(), String> {
+/// True for an SVG plot file, false for PNG; an error for other names (checked before any
+/// work is done).
+fn plot_is_svg(path: &Path) -> Result<bool, String> {
     let ext = path
         .extension()
         .map(|e| e.to_string_lossy().to_ascii_lowercase());
     match ext.as_deref() {
-        Some("svg") => std::fs::write(path, plot.to_svg(800, 420))
-            .map_err(|e| format!("cannot write {}: {e}", path.display()))?,
-        Some("png") => {
-            let img = plot.to_image(800, 420);
-            png_out::write_png(path, img.width, img.height, &img.rgba)?;
-        }
-        _ => {
-            return Err(format!(
-                "the plot file {} must end in .svg or .png",
-                path.display()
-            ))
-        }
+        Some("svg") => Ok(true),
+        Some("png") => Ok(false),
+        _ => Err(format!(
+            "the plot file {} must end in .svg or .png",
+            path.display()
+        )),
+    }
+}
+
+fn write_plot(path: &Path, plot: &crate::plot::Plot) -> Result<(), String> {
+    if plot_is_svg(path)? {
+        std::fs::write(path, plot.to_svg(800, 420))
+            .map_err(|e| format!("cannot write {}: {e}", path.display()))?;
+    } else {
+        let img = plot.to_image(800, 420);
+        png_out::write_png(path, img.width, img.height, &img.rgba)?;
     }
     eprintln!("twinshade: wrote {}", path.display());
     Ok(())
@@ -398,6 +404,9 @@ fn sweep(
     metric: crate::sweep::SweepMetric,
     summary: Option<&Path>,
 ) -> Result<(), String> {
+    if let Some(p) = plot {
+        plot_is_svg(p)?;
+    }
     let mut sweep = crate::sweep::Sweep::new(scene, settings).map_err(|e| e.to_string())?;
     let start = std::time::Instant::now();
     let mut progress = Progress::new("sweep", u64::from(settings.steps));
