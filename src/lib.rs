@@ -28,6 +28,7 @@ pub mod scene;
 pub mod shapes;
 pub mod share;
 pub mod sheet;
+pub mod subdivide;
 pub mod surface;
 pub mod sweep;
 pub mod vertex_buffer;

@@ -74,6 +74,7 @@ pub(crate) struct Geometry {
     source: MeshSource,
     normals: NormalSettings,
     polygons: PolygonMode,
+    subdivision: crate::subdivide::Subdivision,
     generation: u64,
     pub(crate) vb: VertexBuffer,
     shape: Option<Shape>,
@@ -121,7 +122,10 @@ impl Renderer {
 
     pub(crate) fn prepare_geometry(&mut self, scene: &Scene) -> Result<(), SceneError> {
         if let Some(g) = &self.geometry {
-            if g.source == scene.mesh && g.normals == scene.normals && g.polygons == scene.polygons
+            if g.source == scene.mesh
+                && g.normals == scene.normals
+                && g.polygons == scene.polygons
+                && g.subdivision == scene.subdivision
             {
                 return Ok(());
             }
@@ -145,12 +149,19 @@ impl Renderer {
         } else {
             mesh
         };
+        let sub = scene.subdivision;
+        let mesh = if sub.levels > 0 {
+            crate::subdivide::subdivide(&mesh, sub.method, sub.levels).map_err(SceneError)?
+        } else {
+            mesh
+        };
         let vb = VertexBuffer::build(&mesh, scene.polygons);
         self.generation += 1;
         self.geometry = Some(Geometry {
             source: scene.mesh.clone(),
             normals: scene.normals,
             polygons: scene.polygons,
+            subdivision: scene.subdivision,
             generation: self.generation,
             vb,
             shape,

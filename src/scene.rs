@@ -102,6 +102,8 @@ pub struct Scene {
     /// How faces of more than three corners are drawn (split into triangles or filled whole).
     #[serde(alias = "triangulation")]
     pub polygons: PolygonMode,
+    /// Subdivision of the mesh before drawing (none by default).
+    pub subdivision: crate::subdivide::Subdivision,
     /// The camera.
     pub camera: Camera,
     /// The mesh's rotation as a quaternion (x, y, z, w); normalised on use.
@@ -135,6 +137,7 @@ impl Default for Scene {
             mesh: MeshSource::Shape(Shape::Icosphere { level: 2 }),
             normals: NormalSettings::default(),
             polygons: PolygonMode::AsAuthored,
+            subdivision: crate::subdivide::Subdivision::default(),
             camera: Camera::default(),
             rotation: [0.0, 0.0, 0.0, 1.0],
             lights: vec![
@@ -255,6 +258,13 @@ impl Scene {
             }
         }
         in_range("crease angle", self.normals.crease_deg, 0.0, 180.0)?;
+        if self.subdivision.levels > crate::subdivide::MAX_LEVELS {
+            return Err(SceneError(format!(
+                "subdivision has at most {} levels, not {}",
+                crate::subdivide::MAX_LEVELS,
+                self.subdivision.levels
+            )));
+        }
         self.camera.validate().map_err(SceneError)?;
         for (i, v) in self.rotation.iter().enumerate() {
             finite(format_args!("rotation[{i}]"), *v)?;

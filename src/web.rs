@@ -81,7 +81,7 @@ impl Viewer {
     #[wasm_bindgen(js_name = setScene)]
     pub fn set_scene(&mut self, value: JsValue) -> Result<(), JsValue> {
         let scene: Scene = serde_wasm_bindgen::from_value(value).map_err(js_error)?;
-        scene.validate().map_err(js_error)?;
+        self.bench.prepare(&scene).map_err(js_error)?;
         self.scene = scene;
         Ok(())
     }
@@ -90,7 +90,9 @@ impl Viewer {
     /// it is refused.
     #[wasm_bindgen(js_name = setSceneJson)]
     pub fn set_scene_json(&mut self, text: &str) -> Result<(), JsValue> {
-        self.scene = Scene::from_json(text).map_err(js_error)?;
+        let scene = Scene::from_json(text).map_err(js_error)?;
+        self.bench.prepare(&scene).map_err(js_error)?;
+        self.scene = scene;
         Ok(())
     }
 
@@ -112,6 +114,7 @@ impl Viewer {
                 )));
             }
         }
+        self.bench.prepare(&scene).map_err(js_error)?;
         self.scene = scene;
         Ok(())
     }

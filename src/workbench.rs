@@ -67,6 +67,17 @@ impl Workbench {
         self.renderer.set_file_mesh(mesh);
     }
 
+    /// Validates `scene` and prepares its geometry (normals, subdivision, polygon split),
+    /// without drawing: a scene that cannot be drawn (say, subdivided past the triangle limit)
+    /// is refused here, before it replaces a working one.
+    ///
+    /// # Errors
+    /// As [`Workbench::render`].
+    pub fn prepare(&mut self, scene: &Scene) -> Result<(), SceneError> {
+        scene.validate()?;
+        self.renderer.prepare_geometry(scene)
+    }
+
     /// Renders every panel the scene needs and compares the selected pair.
     ///
     /// # Errors
