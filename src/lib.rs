@@ -9,6 +9,7 @@
 #[cfg(target_endian = "big")]
 compile_error!("twinshade's framebuffers are RGBA bytes in little-endian u32s");
 
+pub mod advisor;
 pub mod camera;
 pub mod clip;
 pub mod color;

@@ -84,6 +84,10 @@ pub struct SweepStep {
     pub de00_p95: f64,
     /// Share of covered pixels above the dE00 threshold.
     pub share_above_threshold: f64,
+    /// Lighting evaluations of the per-vertex path (lit render vertices).
+    pub lit_vertices: u64,
+    /// Lighting evaluations of the per-pixel path (shaded pixels).
+    pub lit_pixels: u64,
     /// Roll: probes visible at this step (0 for turntable sweeps).
     pub probes_visible: u32,
     /// Roll: the largest change, against step 0, of a probe's linear luminance, per panel,
@@ -234,6 +238,8 @@ impl Sweep {
             de00_mean: report.metrics.de00.mean,
             de00_p95: report.metrics.de00.p95,
             share_above_threshold: report.metrics.share_above_threshold,
+            lit_vertices: report.lighting.gouraud_vertices,
+            lit_pixels: report.lighting.phong_pixels,
             ..SweepStep::default()
         };
         if self.settings.axis == SweepAxis::Roll {
@@ -333,11 +339,11 @@ impl Sweep {
     pub fn to_csv(&self) -> String {
         let mut out = String::from(
             "step,angle_deg,peak_luminance_gouraud,peak_luminance_phong,de00_mean,de00_p95,\
-share_above_threshold,probes_visible,probe_change_gouraud,probe_change_phong\n",
+share_above_threshold,probes_visible,probe_change_gouraud,probe_change_phong,lit_vertices,lit_pixels\n",
         );
         for r in &self.records {
             out.push_str(&format!(
-                "{},{},{:.6},{:.6},{:.6},{:.6},{:.6},{},{:.6},{:.6}\n",
+                "{},{},{:.6},{:.6},{:.6},{:.6},{:.6},{},{:.6},{:.6},{},{}\n",
                 r.step,
                 r.angle_deg,
                 r.peak_luminance[0],
@@ -348,6 +354,8 @@ share_above_threshold,probes_visible,probe_change_gouraud,probe_change_phong\n",
                 r.probes_visible,
                 r.probe_change[0],
                 r.probe_change[1],
+                r.lit_vertices,
+                r.lit_pixels,
             ));
         }
         out
