@@ -411,14 +411,14 @@ impl Advisor {
         let a = &self.advice;
         let point = |r: &Rung| (r.vertices as f64, r.worst_p95);
         let mut series = vec![Series {
-            name: "Gouraud vs Phong, worst p95".into(),
+            name: "worst p95 per level".into(),
             color: PANEL_COLORS[0],
             dashed: false,
             points: a.rungs.iter().map(point).collect(),
         }];
         if let Some(i) = a.advised {
             series.push(Series {
-                name: "advised".into(),
+                name: "advised level".into(),
                 color: PANEL_COLORS[1],
                 dashed: false,
                 points: vec![point(&a.rungs[i])],
@@ -438,7 +438,7 @@ impl Advisor {
             v_rules: if a.current_pixels > 0 {
                 vec![Rule {
                     at: a.current_pixels as f64,
-                    label: "per pixel".into(),
+                    label: format!("per-pixel: {}", a.current_pixels),
                 }]
             } else {
                 vec![]

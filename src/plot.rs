@@ -242,6 +242,24 @@ impl Plot {
             r#"<rect width="{w}" height="{h}" fill="{}"/>"#,
             hex(BACKGROUND)
         );
+        // Click bands, under everything else: each pick owns the x range halfway to its
+        // neighbours, and its markers drawn later pick it as well.
+        for (i, &x) in self.picks.iter().enumerate() {
+            let here = f.px(x);
+            let left = if i > 0 {
+                (f.px(self.picks[i - 1]) + here) / 2.0
+            } else {
+                l
+            };
+            let right = self.picks.get(i + 1).map_or(r, |n| (f.px(*n) + here) / 2.0);
+            let _ = write!(
+                s,
+                r#"<rect data-pick="{i}" x="{:.1}" y="{t}" width="{:.1}" height="{:.1}" fill="transparent"/>"#,
+                left.min(right),
+                (right - left).abs().max(1.0),
+                b - t
+            );
+        }
         let _ = write!(
             s,
             r#"<text x="{l}" y="18" fill="{}" font-weight="600">{}</text>"#,
@@ -328,18 +346,24 @@ impl Plot {
                 );
             }
             if series.points.len() <= 64 {
-                for (i, &(x, y)) in series.points.iter().enumerate() {
+                for &(x, y) in &series.points {
                     if x.is_finite() && y.is_finite() {
+                        // A point at a pickable x picks it too.
+                        let pick = self
+                            .picks
+                            .iter()
+                            .position(|&p| p == x)
+                            .map_or(String::new(), |i| format!(r#" data-pick="{i}""#));
                         let _ = write!(
                             s,
-                            r#"<circle data-pick="{i}" cx="{:.1}" cy="{:.1}" r="4" fill="{c}"/>"#,
+                            r#"<circle{pick} cx="{:.1}" cy="{:.1}" r="4" fill="{c}"/>"#,
                             f.px(x),
                             f.py(y)
                         );
                     }
                 }
             }
-            let (lx, ly) = legend_at(r, self.series.len(), k);
+            let (lx, ly) = legend_at(r, &self.series, k);
             let _ = write!(
                 s,
                 r#"<line x1="{lx}" x2="{:.1}" y1="{ly}" y2="{ly}" stroke="{c}" stroke-width="2"{dash}/><text x="{:.1}" y="{:.1}" fill="{}">{}</text>"#,
@@ -348,23 +372,6 @@ impl Plot {
                 ly + 4.0,
                 hex(INK),
                 escape(&series.name)
-            );
-        }
-        // Click bands: each pick owns the x range halfway to its neighbours.
-        for (i, &x) in self.picks.iter().enumerate() {
-            let here = f.px(x);
-            let left = if i > 0 {
-                (f.px(self.picks[i - 1]) + here) / 2.0
-            } else {
-                l
-            };
-            let right = self.picks.get(i + 1).map_or(r, |n| (f.px(*n) + here) / 2.0);
-            let _ = write!(
-                s,
-                r#"<rect data-pick="{i}" x="{:.1}" y="{t}" width="{:.1}" height="{:.1}" fill="transparent"/>"#,
-                left.min(right),
-                (right - left).abs().max(1.0),
-                b - t
             );
         }
         s.push_str("</svg>");
@@ -437,7 +444,7 @@ impl Plot {
                     }
                 }
             }
-            let (lx, ly) = legend_at(r, self.series.len(), k);
+            let (lx, ly) = legend_at(r, &self.series, k);
             line(&mut img, (lx, ly), (lx + 22.0, ly), series.color, 2, dash);
             img.text(
                 &series.name,
@@ -451,9 +458,12 @@ impl Plot {
     }
 }
 
-/// Where legend entry `k` of `n` starts: in the top margin, right-aligned to `right`.
-fn legend_at(right: f64, n: usize, k: usize) -> (f64, f64) {
-    (right - 120.0 * (n - k) as f64, 14.0)
+/// Where legend entry `k` starts: in the top margin, the entries right-aligned to `right`,
+/// each a 22-pixel line, a gap and its name (8 pixels a character, the raster glyph width).
+fn legend_at(right: f64, series: &[Series], k: usize) -> (f64, f64) {
+    let width = |s: &Series| 40.0 + 8.0 * s.name.len() as f64;
+    let after: f64 = series[k..].iter().map(width).sum();
+    (right - after, 14.0)
 }
 
 /// A line `width` pixels thick, optionally dashed (on, off lengths in pixels), clipped.

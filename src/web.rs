@@ -6,8 +6,10 @@
 //! pixel or per triangle crosses the boundary. A scene the page sends is validated whole; a
 //! bad one raises a JavaScript `Error` and leaves the previous scene in place.
 
+use crate::advisor::{AdviceSettings, Advisor};
 use crate::measure::Comparer;
 use crate::scene::{MeshSource, Scene};
+use crate::subdivide::SubdivisionMethod;
 use crate::sweep::{Sweep, SweepAxis, SweepMetric, SweepSettings};
 use crate::workbench::{Panel, Workbench};
 use wasm_bindgen::prelude::*;
@@ -34,6 +36,8 @@ pub struct Viewer {
     mesh_name: Option<String>,
     /// The sweep in progress or last finished, if any.
     sweep: Option<Sweep>,
+    /// The advice in progress or last finished, if any.
+    advisor: Option<Advisor>,
 }
 
 impl Default for Viewer {
@@ -55,6 +59,7 @@ impl Viewer {
             legend: Comparer::new(),
             mesh_name: None,
             sweep: None,
+            advisor: None,
         }
     }
 
@@ -378,5 +383,82 @@ impl Viewer {
         scene.validate().map_err(js_error)?;
         self.scene = scene;
         Ok(())
+    }
+
+    /// Starts tessellation advice for the current scene: `steps` turntable angles per level,
+    /// `method` "midpoint" or "pn_triangles" for meshes without a resolution parameter; the
+    /// threshold is the difference view's.
+    #[wasm_bindgen(js_name = startAdvice)]
+    pub fn start_advice(&mut self, steps: u32, method: &str) -> Result<(), JsValue> {
+        let method = match method {
+            "midpoint" => SubdivisionMethod::Midpoint,
+            "pn_triangles" => SubdivisionMethod::PnTriangles,
+            other => return Err(js_error(format!("no subdivision method '{other}'"))),
+        };
+        let settings = AdviceSettings {
+            threshold: self.scene.difference.threshold,
+            steps,
+            method,
+        };
+        self.advisor = Some(Advisor::new(&self.scene, settings).map_err(js_error)?);
+        Ok(())
+    }
+
+    /// Renders the next frame of the advice; false when it is complete (or there is none).
+    #[wasm_bindgen(js_name = adviceStep)]
+    pub fn advice_step(&mut self) -> Result<bool, JsValue> {
+        match self.advisor.as_mut() {
+            Some(a) => a.run_step(&mut self.bench).map_err(js_error),
+            None => Ok(false),
+        }
+    }
+
+    /// Frames rendered and frames at most, `[done, total]` (`[0, 0]` without advice).
+    #[wasm_bindgen(js_name = adviceProgress)]
+    pub fn advice_progress(&self) -> Vec<u32> {
+        self.advisor
+            .as_ref()
+            .map_or(vec![0, 0], |a| vec![a.frames_done(), a.total_frames()])
+    }
+
+    /// The advice so far as an object (levels measured, the advised one, costs).
+    pub fn advice(&self) -> Result<JsValue, JsValue> {
+        let Some(a) = self.advisor.as_ref() else {
+            return Ok(JsValue::NULL);
+        };
+        let ser = serde_wasm_bindgen::Serializer::json_compatible();
+        serde::Serialize::serialize(a.advice(), &ser).map_err(js_error)
+    }
+
+    /// The advice plot as SVG with level `current` marked (negative: none).
+    #[wasm_bindgen(js_name = advicePlot)]
+    pub fn advice_plot(&self, width: u32, height: u32, current: i32) -> String {
+        self.advisor.as_ref().map_or_else(String::new, |a| {
+            a.plot(usize::try_from(current).ok()).to_svg(width, height)
+        })
+    }
+
+    /// Shows level `i` of the advice: its mesh and subdivision in the current view.
+    #[wasm_bindgen(js_name = adviceJump)]
+    pub fn advice_jump(&mut self, i: u32) -> Result<(), JsValue> {
+        let Some(rung) = self
+            .advisor
+            .as_ref()
+            .and_then(|a| a.advice().rungs.get(i as usize))
+        else {
+            return Err(js_error("no such level in the advice"));
+        };
+        let mut scene = self.scene.clone();
+        scene.mesh = rung.mesh.clone();
+        scene.subdivision = rung.subdivision;
+        self.bench.prepare(&scene).map_err(js_error)?;
+        self.scene = scene;
+        Ok(())
+    }
+
+    /// Forgets the advice.
+    #[wasm_bindgen(js_name = cancelAdvice)]
+    pub fn cancel_advice(&mut self) {
+        self.advisor = None;
     }
 }

@@ -661,6 +661,85 @@ async fn page_end_to_end() {
     );
     assert_same_as_native(&c, "after picking a sweep step").await;
 
+    // Tessellation advice: runs to completion in the page, gives the native advisor's levels
+    // and figures, and picking the advised level on the plot shows that mesh.
+    c.goto(&page).await.expect("open the page");
+    wait_ready(&c).await;
+    let (start, _) = native_render(&c).await;
+    c.execute(
+        "document.getElementById('advice-steps').value = '12';",
+        vec![],
+    )
+    .await
+    .expect("set the advice");
+    c.find(Locator::Id("advise"))
+        .await
+        .expect("advise button")
+        .click()
+        .await
+        .expect("click advise");
+    let deadline = Instant::now() + Duration::from_secs(120);
+    while eval(&c, "return document.body.dataset.advice").await != json!("done") {
+        assert!(Instant::now() < deadline, "the advice did not finish");
+        tokio::time::sleep(Duration::from_millis(200)).await;
+    }
+    let mut advisor = twinshade::advisor::Advisor::new(
+        &start,
+        twinshade::advisor::AdviceSettings {
+            threshold: start.difference.threshold,
+            steps: 12,
+            method: twinshade::subdivide::SubdivisionMethod::Midpoint,
+        },
+    )
+    .expect("native advisor");
+    advisor
+        .run(&mut Workbench::new(), |_, _| {})
+        .expect("native advice");
+    // JavaScript has one number type: compare every number as f64.
+    fn as_f64(v: Value) -> Value {
+        match v {
+            Value::Number(n) => json!(n.as_f64()),
+            Value::Array(a) => Value::Array(a.into_iter().map(as_f64).collect()),
+            Value::Object(o) => Value::Object(o.into_iter().map(|(k, v)| (k, as_f64(v))).collect()),
+            other => other,
+        }
+    }
+    let native = as_f64(serde_json::to_value(advisor.advice()).expect("advice as JSON"));
+    let in_page = as_f64(eval(&c, "return window.twinshade.advice()").await);
+    assert_eq!(in_page, native, "the page's advice equals the native one");
+    let advised = native["advised"].as_f64().expect("an advised level") as u64;
+    let answer = eval(
+        &c,
+        "return document.getElementById('advice-answer').textContent",
+    )
+    .await;
+    assert!(
+        answer.as_str().is_some_and(|t| t.contains(
+            native["rungs"][advised as usize]["label"]
+                .as_str()
+                .unwrap_or("?")
+        )),
+        "the answer names the advised level: {answer}"
+    );
+    let (_, _, shown) = canvas(&c, "gouraud").await;
+    // The topmost marker of the advised level (the "advised level" series is drawn last).
+    c.find(Locator::XPath(&format!(
+        "(//*[@id='advice-plot']//*[local-name()='circle' and @data-pick='{advised}'])[last()]"
+    )))
+    .await
+    .expect("advised point on the plot")
+    .click()
+    .await
+    .expect("click the advised point");
+    wait_changed(&c, "gouraud", &shown, "picking a level").await;
+    let (picked, _) = native_render(&c).await;
+    assert_eq!(
+        as_f64(serde_json::to_value(&picked.mesh).expect("mesh")),
+        native["rungs"][advised as usize]["mesh"],
+        "the picked level's mesh is shown"
+    );
+    assert_same_as_native(&c, "after picking an advised level").await;
+
     // Keyboard only: Tab reaches every control (and the panels, which turn with arrow keys).
     c.goto(&page).await.expect("open the page");
     wait_ready(&c).await;

@@ -381,6 +381,9 @@ function syncControls() {
   $("crease").value = s.normals.crease_deg;
   $("crease-out").textContent = s.normals.crease_deg >= 180 ? "smooth" : `${Math.round(s.normals.crease_deg)}°`;
   $("polygons").value = s.polygons;
+  $("subdiv-method").value = s.subdivision.method;
+  $("subdiv-levels").value = s.subdivision.levels;
+  $("subdiv-levels-out").textContent = s.subdivision.levels ? `${s.subdivision.levels} (× ${4 ** s.subdivision.levels} triangles)` : "none";
   const m = s.material;
   $("base").value = m.base_color;
   $("finish").value = m.finish;
@@ -424,6 +427,8 @@ function bindControls() {
   on("normal-weighting", "change", (s) => { s.normals.weighting = $("normal-weighting").value; });
   on("crease", "input", (s) => { s.normals.crease_deg = +$("crease").value; });
   on("polygons", "change", (s) => { s.polygons = $("polygons").value; });
+  on("subdiv-method", "change", (s) => { s.subdivision.method = $("subdiv-method").value; });
+  on("subdiv-levels", "change", (s) => { s.subdivision.levels = +$("subdiv-levels").value; });
   on("base", "input", (s) => { s.material.base_color = $("base").value; });
   on("finish", "change", (s) => { s.material.finish = $("finish").value; });
   on("model", "change", (s) => { s.model = $("model").value; });
@@ -649,6 +654,134 @@ function bindMotion() {
     download("twinshade-sweep.csv", new Blob([viewer.sweepCsv()], { type: "text/csv" })));
 }
 
+// Advice runs like a sweep: in slices between frames, then a plot of error against lighting
+// evaluations (one point per level; clicking one shows that level) and a table.
+let advising = false;
+let adviceCurrent = -1;
+
+function showAdvice() {
+  const a = viewer.advice();
+  if (!a) return;
+  const box = $("advice-plot");
+  const width = Math.max(320, Math.min(960, Math.floor($("advice-result").getBoundingClientRect().width || 720)));
+  box.innerHTML = viewer.advicePlot(width, 300, adviceCurrent);
+  const table = $("advice-table");
+  table.replaceChildren();
+  const head = table.insertRow();
+  for (const h of ["Level", "Vertices lit", "Triangles", "Worst p95 dE00", "Mean p95 dE00", "Pixels lit"]) {
+    const th = document.createElement("th");
+    th.textContent = h;
+    head.append(th);
+  }
+  a.rungs.forEach((r, i) => {
+    const row = table.insertRow();
+    row.dataset.advised = i === a.advised ? "1" : "";
+    for (const v of [r.label, fmt(r.vertices), fmt(r.triangles), r.worst_p95.toFixed(2), r.mean_p95.toFixed(2), fmt(Math.round(r.pixels))]) {
+      row.insertCell().textContent = v;
+    }
+  });
+  const answer = $("advice-answer");
+  if (a.advised !== null && a.advised !== undefined) {
+    const r = a.rungs[a.advised];
+    answer.textContent =
+      `Per-vertex lighting needs ${r.label}: ${fmt(r.vertices)} lit vertices and ${fmt(r.triangles)} triangles per frame ` +
+      `keep the 95th-percentile difference under ${a.settings.threshold} dE00 at all ${a.settings.steps} angles (worst ${r.worst_p95.toFixed(2)}). ` +
+      `Per-pixel lighting at this view costs ${fmt(a.current_pixels)} lighting evaluations per frame.`;
+  } else {
+    answer.textContent = a.note ? `No level yet: ${a.note}.` : "Measuring…";
+  }
+}
+
+function adviceDone(message) {
+  advising = false;
+  $("advise").textContent = "Advise";
+  $("advice-progress").hidden = true;
+  $("advice-status").textContent = message;
+  document.body.dataset.advice = "done";
+}
+
+function adviceSlice() {
+  if (!advising) return;
+  const t0 = performance.now();
+  let more = true;
+  try {
+    while (more && performance.now() - t0 < SLICE_MS) more = viewer.adviceStep();
+  } catch (e) {
+    adviceDone("");
+    showProblem(`Advice stopped: ${e.message || e}`);
+    return;
+  }
+  const [done, total] = viewer.adviceProgress();
+  $("advice-progress").value = done / Math.max(1, total);
+  $("advice-status").textContent = `${done} frames rendered`;
+  $("advice-result").hidden = false;
+  showAdvice();
+  if (more) {
+    setTimeout(adviceSlice, 0);
+  } else {
+    adviceDone("Done. Click a point of the plot to show that level.");
+    requestRender();
+  }
+}
+
+function startAdvice() {
+  if (advising) {
+    adviceDone("Stopped; the table shows the levels measured so far.");
+    requestRender();
+    return;
+  }
+  try {
+    viewer.startAdvice(+$("advice-steps").value, $("advice-method").value);
+  } catch (e) {
+    showProblem(`Cannot advise: ${e.message || e}`);
+    return;
+  }
+  showProblem("");
+  if (playing) setPlaying(false);
+  advising = true;
+  adviceCurrent = -1;
+  document.body.dataset.advice = "running";
+  $("advise").textContent = "Stop advice";
+  $("advice-progress").hidden = false;
+  $("advice-progress").value = 0;
+  setTimeout(adviceSlice, 0);
+}
+
+function jumpToLevel(i) {
+  const a = viewer.advice();
+  if (!a || !(i >= 0 && i < a.rungs.length)) return;
+  try {
+    viewer.adviceJump(i);
+  } catch (e) {
+    showProblem(`${e.message || e}`);
+    return;
+  }
+  adviceCurrent = i;
+  $("preset").value = "";
+  syncControls();
+  showAdvice();
+  requestRender();
+}
+
+function bindAdvice() {
+  $("advise").addEventListener("click", startAdvice);
+  $("advice-plot").addEventListener("click", (e) => {
+    const hit = e.target.closest && e.target.closest("[data-pick]");
+    if (hit) jumpToLevel(+hit.dataset.pick);
+  });
+  $("advice-plot").addEventListener("keydown", (e) => {
+    const step = { ArrowLeft: -1, ArrowRight: 1 }[e.key];
+    if (step === undefined) return;
+    const a = viewer.advice();
+    if (a && a.rungs.length) jumpToLevel((Math.max(0, adviceCurrent) + step + a.rungs.length) % a.rungs.length);
+    e.preventDefault();
+  });
+  $("save-advice").addEventListener("click", () => {
+    const doc = { link: location.href, advice: viewer.advice() };
+    download("twinshade-advice.json", new Blob([JSON.stringify(doc, null, 2)], { type: "application/json" }));
+  });
+}
+
 /** Sizes the panels to the layout, in device pixels so they stay sharp on high-DPI screens. */
 function fitPanels() {
   if (!fitToLayout) return;
@@ -718,6 +851,7 @@ async function start() {
   $("copy-link").addEventListener("click", copyLink);
   bindTurning();
   bindMotion();
+  bindAdvice();
   syncControls();
   fitPanels();
   new ResizeObserver(fitPanels).observe($("panels"));
@@ -736,6 +870,7 @@ async function start() {
     sceneJson: () => viewer.sceneJson(),
     report: () => viewer.report(),
     sweepCsv: () => viewer.sweepCsv(),
+    advice: () => viewer.advice(),
     loadMesh: (name, bytes) => loadMeshBytes(name, bytes),
     sheetDataUrl: () => {
       const c = sheetCanvas();

@@ -1,7 +1,8 @@
 //! The native command line: argument parsing and dispatch (thin; the work is in the core).
 //!
 //! Commands: `serve` (build the page and serve it on 127.0.0.1), `render` (the panels as PNG),
-//! `sweep` (measure a turntable or roll rotation step by step), `scene` (print a scene as
+//! `sweep` (measure a turntable or roll rotation step by step), `advise` (how much
+//! tessellation per-vertex lighting needs), `scene` (print a scene as
 //! JSON), `build-web` (a static folder for any web host). Errors go
 //! to stderr with a non-zero exit; nothing panics on bad input.
 
@@ -95,6 +96,37 @@ enum Command {
         #[arg(long)]
         summary: Option<PathBuf>,
     },
+    /// Find how much tessellation per-vertex lighting needs: finer and finer versions of the
+    /// mesh, each swept on a turntable, until Gouraud stays within the threshold of Phong.
+    Advise {
+        /// Scene file (JSON); the built-in default scene when absent.
+        #[arg(long, conflicts_with = "preset")]
+        scene: Option<PathBuf>,
+        /// A built-in preset instead of a scene file (see `twinshade presets`).
+        #[arg(long)]
+        preset: Option<String>,
+        /// A mesh file (OBJ, STL, PLY, glTF or GLB) instead of the scene's shape.
+        #[arg(long)]
+        mesh: Option<PathBuf>,
+        /// Panel size, WIDTHxHEIGHT (overrides the scene's): the view the costs refer to.
+        #[arg(long, value_parser = parse_size)]
+        size: Option<(u32, u32)>,
+        /// The dE00 the 95th percentile must stay under (default: the scene's threshold).
+        #[arg(long)]
+        threshold: Option<f32>,
+        /// Turntable angles per level (1 to 360).
+        #[arg(long, default_value_t = 24)]
+        steps: u32,
+        /// Subdivision for meshes without a resolution parameter (files, the cube).
+        #[arg(long, value_enum, default_value_t = MethodArg::Midpoint)]
+        method: MethodArg,
+        /// The advice (every level measured, the advised one, costs) as JSON.
+        #[arg(long)]
+        out: PathBuf,
+        /// Also draw error against lighting evaluations, SVG or PNG by the file's extension.
+        #[arg(long)]
+        plot: Option<PathBuf>,
+    },
     /// Compare two same-size sRGB PNG images (e.g. captures from an engine) in dE00.
     Compare {
         /// Image A (PNG).
@@ -140,6 +172,14 @@ enum Command {
 enum AxisArg {
     Turntable,
     Roll,
+}
+
+#[derive(Clone, Copy, clap::ValueEnum)]
+enum MethodArg {
+    /// Points on the original faces.
+    Midpoint,
+    /// Curved PN triangles (Vlachos et al. 2001).
+    Pn,
 }
 
 #[derive(Clone, Copy, clap::ValueEnum)]
@@ -238,6 +278,28 @@ fn run(command: Command) -> Result<(), String> {
                 metric,
                 summary.as_deref(),
             )
+        }
+        Command::Advise {
+            scene,
+            preset,
+            mesh,
+            size,
+            threshold,
+            steps,
+            method,
+            out,
+            plot,
+        } => {
+            let (scene, bench, _) = prepare(pick_scene(scene, preset)?, mesh.as_deref(), size)?;
+            let settings = crate::advisor::AdviceSettings {
+                threshold: threshold.unwrap_or(scene.difference.threshold),
+                steps,
+                method: match method {
+                    MethodArg::Midpoint => crate::subdivide::SubdivisionMethod::Midpoint,
+                    MethodArg::Pn => crate::subdivide::SubdivisionMethod::PnTriangles,
+                },
+            };
+            advise(&scene, bench, settings, &out, plot.as_deref())
         }
         Command::Presets => {
             for p in crate::presets::presets() {
@@ -448,6 +510,63 @@ fn sweep(
     }
     if let Some(path) = summary {
         write_json(path, &s)?;
+    }
+    Ok(())
+}
+
+fn advise(
+    scene: &Scene,
+    mut bench: Workbench,
+    settings: crate::advisor::AdviceSettings,
+    out: &Path,
+    plot: Option<&Path>,
+) -> Result<(), String> {
+    if let Some(p) = plot {
+        plot_is_svg(p)?;
+    }
+    let mut advisor = crate::advisor::Advisor::new(scene, settings).map_err(|e| e.to_string())?;
+    let start = std::time::Instant::now();
+    let mut progress = Progress::new("advise", u64::from(advisor.total_frames()));
+    let result = advisor.run(&mut bench, |done, total| {
+        progress.update(u64::from(done), u64::from(total));
+    });
+    progress.finish();
+    result.map_err(|e| e.to_string())?;
+    let a = advisor.advice();
+    eprintln!(
+        "twinshade: {} levels, {} turntable angles each, in {:.2} s",
+        a.rungs.len(),
+        settings.steps,
+        start.elapsed().as_secs_f64()
+    );
+    for (i, r) in a.rungs.iter().enumerate() {
+        println!(
+            "{} {:28} {:>9} vertices {:>9} triangles  worst p95 {:7.3} dE00 (at {:.0} deg), mean p95 {:.3}",
+            if Some(i) == a.advised { "->" } else { "  " },
+            r.label,
+            r.vertices,
+            r.triangles,
+            r.worst_p95,
+            r.worst_angle_deg,
+            r.mean_p95
+        );
+    }
+    match a.advised.map(|i| &a.rungs[i]) {
+        Some(r) => println!(
+            "advice: {} ({} lighting evaluations per frame per vertex) keeps p95 under {} dE00 at every angle; per-pixel lighting costs {} evaluations per frame at {}x{}",
+            r.label, r.vertices, settings.threshold, a.current_pixels, a.view[0], a.view[1]
+        ),
+        None => println!(
+            "advice: none of these levels is enough ({}); per-pixel lighting costs {} evaluations per frame at {}x{}",
+            a.note.as_deref().unwrap_or("ladder ended"),
+            a.current_pixels,
+            a.view[0],
+            a.view[1]
+        ),
+    }
+    write_json(out, a)?;
+    if let Some(path) = plot {
+        write_plot(path, &advisor.plot(a.advised))?;
     }
     Ok(())
 }
