@@ -367,3 +367,86 @@ fn sweep_writes_the_library_series_and_plots() {
     }
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn advise_writes_the_library_advice_and_a_plot() {
+    let dir = temp_dir("advise");
+    std::fs::create_dir_all(&dir).expect("temp dir");
+    let json = dir.join("advice.json");
+    let svg = dir.join("advice.svg");
+    let out = twinshade(&[
+        "advise",
+        "--size",
+        "160x120",
+        "--steps",
+        "6",
+        "--threshold",
+        "1.5",
+        "--out",
+        json.to_str().expect("utf-8"),
+        "--plot",
+        svg.to_str().expect("utf-8"),
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let stdout = String::from_utf8_lossy(&out.stdout);
+    assert!(stdout.contains("advice: icosphere level"), "{stdout}");
+    let written = std::fs::read_to_string(&json).expect("advice written");
+    let mut scene = Scene::default();
+    scene.panel.width = 160;
+    scene.panel.height = 120;
+    let mut advisor = twinshade::advisor::Advisor::new(
+        &scene,
+        twinshade::advisor::AdviceSettings {
+            threshold: 1.5,
+            steps: 6,
+            method: twinshade::subdivide::SubdivisionMethod::Midpoint,
+        },
+    )
+    .expect("advisor");
+    advisor
+        .run(&mut twinshade::Workbench::new(), |_, _| {})
+        .expect("runs");
+    // The same bytes as the library's advice, pretty-printed.
+    assert_eq!(
+        written,
+        serde_json::to_string_pretty(advisor.advice()).expect("JSON") + "\n"
+    );
+    let plot = std::fs::read_to_string(&svg).expect("plot written");
+    assert_eq!(
+        plot.matches("<rect data-pick=").count(),
+        advisor.advice().rungs.len()
+    );
+
+    // A mesh file is subdivided; PN triangles by request.
+    let obj = dir.join("tetra.obj");
+    std::fs::write(
+        &obj,
+        "v 0 0 1\nv 0.94 0 -0.33\nv -0.47 0.82 -0.33\nv -0.47 -0.82 -0.33\nf 1 2 3\nf 1 3 4\nf 1 4 2\nf 2 4 3\n",
+    )
+    .expect("write obj");
+    let out = twinshade(&[
+        "advise",
+        "--mesh",
+        obj.to_str().expect("utf-8"),
+        "--size",
+        "96x72",
+        "--steps",
+        "4",
+        "--method",
+        "pn",
+        "--out",
+        json.to_str().expect("utf-8"),
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let stdout = String::from_utf8_lossy(&out.stdout);
+    assert!(stdout.contains("1 x PN triangles"), "{stdout}");
+    let _ = std::fs::remove_dir_all(&dir);
+}
