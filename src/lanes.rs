@@ -8,10 +8,25 @@
 //! correctly rounded on every target.
 
 use std::ops::{Add, Div, Mul, Sub};
+use wide::{f32x4, CmpGt};
 
-/// Four f32 lanes.
+/// Four f32 lanes (a `wide::f32x4`: SSE on x86-64, `simd128` on wasm32, plain arrays
+/// elsewhere; packed add, subtract, multiply, divide, square root and compare are IEEE
+/// operations, correctly rounded lane by lane).
 #[derive(Clone, Copy, Debug, Default, PartialEq)]
-pub struct F4(pub [f32; 4]);
+pub struct F4(f32x4);
+
+/// A lane mask from a comparison (all bits set where true).
+#[derive(Clone, Copy, Debug)]
+pub struct M4(f32x4);
+
+impl std::ops::BitAnd for M4 {
+    type Output = M4;
+    #[inline(always)]
+    fn bitand(self, o: M4) -> M4 {
+        M4(self.0 & o.0)
+    }
+}
 
 macro_rules! lanewise {
     ($trait:ident, $method:ident, $op:tt) => {
@@ -19,19 +34,14 @@ macro_rules! lanewise {
             type Output = F4;
             #[inline(always)]
             fn $method(self, rhs: F4) -> F4 {
-                F4([
-                    self.0[0] $op rhs.0[0],
-                    self.0[1] $op rhs.0[1],
-                    self.0[2] $op rhs.0[2],
-                    self.0[3] $op rhs.0[3],
-                ])
+                F4(self.0 $op rhs.0)
             }
         }
         impl $trait<f32> for F4 {
             type Output = F4;
             #[inline(always)]
             fn $method(self, rhs: f32) -> F4 {
-                F4([self.0[0] $op rhs, self.0[1] $op rhs, self.0[2] $op rhs, self.0[3] $op rhs])
+                F4(self.0 $op f32x4::splat(rhs))
             }
         }
     };
@@ -43,41 +53,53 @@ lanewise!(Mul, mul, *);
 lanewise!(Div, div, /);
 
 impl F4 {
+    /// The lanes `a`.
+    #[inline(always)]
+    pub fn new(a: [f32; 4]) -> F4 {
+        F4(f32x4::new(a))
+    }
+
+    /// The four lanes.
+    #[inline(always)]
+    pub fn to_array(self) -> [f32; 4] {
+        self.0.to_array()
+    }
+
     /// All lanes `v`.
     #[inline(always)]
     pub fn splat(v: f32) -> F4 {
-        F4([v; 4])
+        F4(f32x4::splat(v))
     }
-
-    // Written out lane by lane: `array::map` with closures was not inlined and cost about a
-    // quarter of a frame (perf, bench scene L5 800x600).
 
     /// Lane-wise square root (correctly rounded).
     #[inline(always)]
     pub fn sqrt(self) -> F4 {
-        let a = self.0;
-        F4([a[0].sqrt(), a[1].sqrt(), a[2].sqrt(), a[3].sqrt()])
+        F4(self.0.sqrt())
     }
 
     /// Lane-wise `if mask { a } else { b }`.
     #[inline(always)]
-    pub fn select(mask: [bool; 4], a: F4, b: F4) -> F4 {
-        let pick = |k: usize| if mask[k] { a.0[k] } else { b.0[k] };
-        F4([pick(0), pick(1), pick(2), pick(3)])
+    pub fn select(mask: M4, a: F4, b: F4) -> F4 {
+        F4(mask.0.blend(a.0, b.0))
     }
 
-    /// Lane-wise `self > v`.
+    /// Lane-wise `self > v` (false for NaN).
     #[inline(always)]
-    pub fn gt(self, v: f32) -> [bool; 4] {
-        let a = self.0;
-        [a[0] > v, a[1] > v, a[2] > v, a[3] > v]
+    pub fn gt(self, v: f32) -> M4 {
+        M4(self.0.cmp_gt(f32x4::splat(v)))
+    }
+
+    /// Lane-wise "finite" (neither infinite nor NaN).
+    #[inline(always)]
+    pub fn finite(self) -> M4 {
+        M4(self.0.is_finite())
     }
 
     /// Lane-wise application of a scalar function (for steps without a vector form).
     #[inline(always)]
     pub fn map(self, f: impl Fn(f32) -> f32) -> F4 {
-        let a = self.0;
-        F4([f(a[0]), f(a[1]), f(a[2]), f(a[3])])
+        let a = self.to_array();
+        F4::new([f(a[0]), f(a[1]), f(a[2]), f(a[3])])
     }
 }
 
@@ -134,13 +156,7 @@ impl V4 {
     #[inline(always)]
     pub fn normalize_or_zero(self) -> V4 {
         let rcp = F4::splat(1.0) / self.dot(self).sqrt();
-        let r = rcp.0;
-        let ok = [
-            r[0].is_finite() && r[0] > 0.0,
-            r[1].is_finite() && r[1] > 0.0,
-            r[2].is_finite() && r[2] > 0.0,
-            r[3].is_finite() && r[3] > 0.0,
-        ];
+        let ok = rcp.finite() & rcp.gt(0.0);
         let zero = F4::splat(0.0);
         V4 {
             x: F4::select(ok, self.x * rcp, zero),

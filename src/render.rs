@@ -744,7 +744,7 @@ impl FragmentShader<6> for PerPixel<'_> {
 
     #[inline(always)]
     fn shade4(&self, v: &[[f32; 6]; 4]) -> [u32; 4] {
-        let lane = |j: usize| F4([v[0][j], v[1][j], v[2][j], v[3][j]]);
+        let lane = |j: usize| F4::new([v[0][j], v[1][j], v[2][j], v[3][j]]);
         let n = V4 {
             x: lane(0),
             y: lane(1),
@@ -757,7 +757,8 @@ impl FragmentShader<6> for PerPixel<'_> {
             z: lane(5),
         };
         let c = self.lighting.shade4(n, p);
-        let px = |k: usize| self.enc.pack(c.x.0[k], c.y.0[k], c.z.0[k]);
+        let (r, g, b) = (c.x.to_array(), c.y.to_array(), c.z.to_array());
+        let px = |k: usize| self.enc.pack(r[k], g[k], b[k]);
         [px(0), px(1), px(2), px(3)]
     }
 }

@@ -71,14 +71,14 @@ fn four_lane_lighting_is_bit_identical_to_scalar() {
                 [0; 4].map(|_| Vec3::new(next(), next(), next()).normalize_or_zero());
             let p: [Vec3; 4] = [0; 4].map(|_| Vec3::new(next(), next(), next()));
             let lanes = |v: &[Vec3; 4]| V4 {
-                x: F4(v.map(|v| v.x)),
-                y: F4(v.map(|v| v.y)),
-                z: F4(v.map(|v| v.z)),
+                x: F4::new(v.map(|v| v.x)),
+                y: F4::new(v.map(|v| v.y)),
+                z: F4::new(v.map(|v| v.z)),
             };
             let got = l.shade4(lanes(&n), lanes(&p));
             for k in 0..4 {
                 let want = l.shade(n[k], p[k]);
-                let lane = Vec3::new(got.x.0[k], got.y.0[k], got.z.0[k]);
+                let lane = Vec3::new(got.x.to_array()[k], got.y.to_array()[k], got.z.to_array()[k]);
                 assert_eq!(
                     lane.to_array().map(f32::to_bits),
                     want.to_array().map(f32::to_bits),
