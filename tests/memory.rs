@@ -87,12 +87,16 @@ fn a_two_million_triangle_mesh_fits_the_memory_budget() {
     let imported = twinshade::import::import("grid.ply", &bytes).expect("imports");
     assert_eq!(imported.info().triangles, 2_000_000);
     drop(bytes); // the page lets go of the file once imported, too
-    let mut scene = Scene::default();
-    scene.mesh = MeshSource::File {
-        name: "grid.ply".into(),
+    let scene = Scene {
+        mesh: MeshSource::File {
+            name: "grid.ply".into(),
+        },
+        panel: twinshade::scene::PanelSize {
+            width: 800,
+            height: 600,
+        },
+        ..Scene::default()
     };
-    scene.panel.width = 800;
-    scene.panel.height = 600;
     let mut bench = Workbench::new();
     bench.set_file_mesh(imported.mesh);
     let report = *bench.render(&scene).expect("renders");
