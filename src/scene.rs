@@ -319,6 +319,45 @@ impl Scene {
         Ok(())
     }
 
+    /// True when `self` and `other` draw the same shading panels: every field but the
+    /// difference settings (which only change the comparison) is equal.
+    pub fn same_panels(&self, other: &Scene) -> bool {
+        // Destructured in full so that a new field cannot be forgotten here.
+        let Scene {
+            version,
+            mesh,
+            normals,
+            polygons,
+            subdivision,
+            camera,
+            rotation,
+            lights,
+            ambient_light,
+            material,
+            model,
+            cull_back_faces,
+            perspective_correct,
+            panel,
+            background,
+            difference: _,
+        } = self;
+        *version == other.version
+            && *mesh == other.mesh
+            && *normals == other.normals
+            && *polygons == other.polygons
+            && *subdivision == other.subdivision
+            && *camera == other.camera
+            && *rotation == other.rotation
+            && *lights == other.lights
+            && *ambient_light == other.ambient_light
+            && *material == other.material
+            && *model == other.model
+            && *cull_back_faces == other.cull_back_faces
+            && *perspective_correct == other.perspective_correct
+            && *panel == other.panel
+            && *background == other.background
+    }
+
     /// The mesh rotation, normalised (identity if it cannot be).
     pub fn rotation_quat(&self) -> Quat {
         let [x, y, z, w] = self.rotation;

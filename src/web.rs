@@ -38,6 +38,9 @@ pub struct Viewer {
     sweep: Option<Sweep>,
     /// The advice in progress or last finished, if any.
     advisor: Option<Advisor>,
+    /// The shading panels in the workbench show the current scene (only the comparison may
+    /// be stale): a full render then only compares.
+    panels_fresh: bool,
 }
 
 impl Default for Viewer {
@@ -60,6 +63,7 @@ impl Viewer {
             mesh_name: None,
             sweep: None,
             advisor: None,
+            panels_fresh: false,
         }
     }
 
@@ -87,7 +91,7 @@ impl Viewer {
     pub fn set_scene(&mut self, value: JsValue) -> Result<(), JsValue> {
         let scene: Scene = serde_wasm_bindgen::from_value(value).map_err(js_error)?;
         self.bench.prepare(&scene).map_err(js_error)?;
-        self.scene = scene;
+        self.replace_scene(scene);
         Ok(())
     }
 
@@ -97,7 +101,7 @@ impl Viewer {
     pub fn set_scene_json(&mut self, text: &str) -> Result<(), JsValue> {
         let scene = Scene::from_json(text).map_err(js_error)?;
         self.bench.prepare(&scene).map_err(js_error)?;
-        self.scene = scene;
+        self.replace_scene(scene);
         Ok(())
     }
 
@@ -120,7 +124,7 @@ impl Viewer {
             }
         }
         self.bench.prepare(&scene).map_err(js_error)?;
-        self.scene = scene;
+        self.replace_scene(scene);
         Ok(())
     }
 
@@ -137,6 +141,7 @@ impl Viewer {
         self.scene.mesh = MeshSource::File {
             name: name.to_string(),
         };
+        self.panels_fresh = false; // a new file may carry an old name
         let ser = serde_wasm_bindgen::Serializer::json_compatible();
         serde::Serialize::serialize(&info, &ser).map_err(js_error)
     }
@@ -156,9 +161,9 @@ impl Viewer {
     pub fn load_preset(&mut self, id: &str) -> Result<(), JsValue> {
         let preset =
             crate::presets::preset(id).ok_or_else(|| js_error(format!("no preset '{id}'")))?;
-        let panel = self.scene.panel;
-        self.scene = preset.scene;
-        self.scene.panel = panel;
+        let mut scene = preset.scene;
+        scene.panel = self.scene.panel;
+        self.replace_scene(scene);
         Ok(())
     }
 
@@ -169,7 +174,7 @@ impl Viewer {
         next.panel.width = width;
         next.panel.height = height;
         next.validate().map_err(js_error)?;
-        self.scene = next;
+        self.replace_scene(next);
         Ok(())
     }
 
@@ -177,12 +182,20 @@ impl Viewer {
     pub fn turn(&mut self, right_deg: f32, down_deg: f32) {
         if right_deg.is_finite() && down_deg.is_finite() {
             self.scene.turn(right_deg, down_deg);
+            self.panels_fresh = false;
         }
     }
 
-    /// Renders every panel and compares the selected pair.
+    /// Renders every panel and compares the selected pair; when the shading panels already
+    /// show this scene (a change of difference settings, or the settle frame after a drag
+    /// rendered with `renderPanels`), only the comparison runs.
     pub fn render(&mut self) -> Result<(), JsValue> {
-        self.bench.render(&self.scene).map_err(js_error)?;
+        if self.panels_fresh {
+            self.bench.compare_only(&self.scene).map_err(js_error)?;
+        } else {
+            self.bench.render(&self.scene).map_err(js_error)?;
+        }
+        self.panels_fresh = true;
         Ok(())
     }
 
@@ -190,6 +203,7 @@ impl Viewer {
     #[wasm_bindgen(js_name = renderPanels)]
     pub fn render_panels(&mut self) -> Result<(), JsValue> {
         self.bench.render_panels(&self.scene).map_err(js_error)?;
+        self.panels_fresh = true;
         Ok(())
     }
 
@@ -199,7 +213,7 @@ impl Viewer {
     pub fn load_bench_scene(&mut self, level: u32, width: u32, height: u32) -> Result<(), JsValue> {
         let scene = Scene::bench(level, width, height, 0);
         scene.validate().map_err(js_error)?;
-        self.scene = scene;
+        self.replace_scene(scene);
         Ok(())
     }
 
@@ -294,6 +308,7 @@ impl Viewer {
         if deg.is_finite() {
             let q = self.scene.rotation_quat() * crate::scene::axis_angle(glam::Vec3::Y, deg);
             self.scene.set_rotation(q);
+            self.panels_fresh = false;
         }
     }
 
@@ -322,6 +337,7 @@ impl Viewer {
         let Some(sweep) = self.sweep.as_mut() else {
             return Ok(false);
         };
+        self.panels_fresh = false; // the workbench now holds the sweep's frame
         sweep.run_step(&mut self.bench).map_err(js_error)?;
         Ok(!sweep.is_done())
     }
@@ -381,7 +397,7 @@ impl Viewer {
         let mut scene = sweep.scene_at(step);
         scene.panel = self.scene.panel;
         scene.validate().map_err(js_error)?;
-        self.scene = scene;
+        self.replace_scene(scene);
         Ok(())
     }
 
@@ -407,6 +423,7 @@ impl Viewer {
     /// Renders the next frame of the advice; false when it is complete (or there is none).
     #[wasm_bindgen(js_name = adviceStep)]
     pub fn advice_step(&mut self) -> Result<bool, JsValue> {
+        self.panels_fresh = false; // the workbench now holds the advice's frame
         match self.advisor.as_mut() {
             Some(a) => a.run_step(&mut self.bench).map_err(js_error),
             None => Ok(false),
@@ -452,7 +469,7 @@ impl Viewer {
         scene.mesh = rung.mesh.clone();
         scene.subdivision = rung.subdivision;
         self.bench.prepare(&scene).map_err(js_error)?;
-        self.scene = scene;
+        self.replace_scene(scene);
         Ok(())
     }
 
@@ -460,5 +477,13 @@ impl Viewer {
     #[wasm_bindgen(js_name = cancelAdvice)]
     pub fn cancel_advice(&mut self) {
         self.advisor = None;
+    }
+}
+
+impl Viewer {
+    /// Makes `scene` current; the panels stay fresh only if it draws the same panels.
+    fn replace_scene(&mut self, scene: Scene) {
+        self.panels_fresh &= scene.same_panels(&self.scene);
+        self.scene = scene;
     }
 }

@@ -84,6 +84,17 @@ impl Workbench {
     /// When the scene is invalid or names a mesh file that was not supplied.
     pub fn render(&mut self, scene: &Scene) -> Result<&FrameReport, SceneError> {
         self.render_panels(scene)?;
+        self.compare_only(scene)
+    }
+
+    /// Compares the panels already rendered for `scene` (by [`Workbench::render_panels`] or
+    /// [`Workbench::render`] of a scene with the same panels, see [`Scene::same_panels`])
+    /// under `scene`'s difference settings, rendering the exact reference if they name it:
+    /// what a change of threshold, scale or pair, or the settle frame after a drag, needs.
+    ///
+    /// # Errors
+    /// As [`Workbench::render`].
+    pub fn compare_only(&mut self, scene: &Scene) -> Result<&FrameReport, SceneError> {
         let pair = scene.difference.pair;
         self.stats[2] = if pair.contains(&ShadingMode::Exact) {
             self.renderer

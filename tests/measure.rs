@@ -256,3 +256,35 @@ fn glossy_sphere_p95_falls_with_subdivision() {
     }
     eprintln!("{report}");
 }
+
+#[test]
+fn comparing_again_equals_a_full_render() {
+    // The page's settle frame and difference-setting edits only re-compare: the result must
+    // be what a full render gives.
+    let mut scene = twinshade::Scene::default();
+    scene.panel.width = 120;
+    scene.panel.height = 90;
+    let mut a = twinshade::Workbench::new();
+    a.render_panels(&scene).expect("panels");
+    let mut edited = scene.clone();
+    edited.difference.threshold = 2.5;
+    edited.difference.pair = [
+        twinshade::ShadingMode::Gouraud,
+        twinshade::ShadingMode::Exact,
+    ];
+    assert!(edited.same_panels(&scene));
+    let quick = *a.compare_only(&edited).expect("compare");
+    let mut b = twinshade::Workbench::new();
+    let full = *b.render(&edited).expect("render");
+    assert_eq!(quick, full);
+    assert_eq!(
+        a.framebuffer(twinshade::Panel::Difference).bytes(),
+        b.framebuffer(twinshade::Panel::Difference).bytes()
+    );
+    let mut turned = scene.clone();
+    turned.turn(1.0, 0.0);
+    assert!(!turned.same_panels(&scene));
+    let mut recoloured = scene.clone();
+    recoloured.material.base_color = "#123456".into();
+    assert!(!recoloured.same_panels(&scene));
+}
