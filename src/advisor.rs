@@ -449,8 +449,8 @@ impl Advisor {
     }
 }
 
-/// True when a scene's mesh would be over the triangle limit (shapes are estimated without
-/// building them; files by their subdivision factor alone is left to preparation).
+/// True when a shape rung would be over the triangle limit, estimated without building it.
+/// File meshes are checked when the rung is prepared ([`Workbench::prepare`]).
 fn exceeds_limit(scene: &Scene) -> bool {
     let shape_tris = |s: &Shape| -> u64 {
         match *s {
