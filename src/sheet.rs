@@ -95,8 +95,13 @@ pub fn sheet(panels: &[(&str, &Framebuffer)]) -> Image {
     let mut img = Image::filled(w, h + LABEL_STRIP + GAP, [18, 19, 23, 255]);
     let mut x = GAP;
     for (label, fb) in panels {
-        // Glyphs at twice their size when the label fits above its panel, else actual size.
-        let scale = if label.len() * 16 <= fb.width() { 2 } else { 1 };
+        // Glyphs at twice their size when the label fits above its panel with a gap to the
+        // next label, else actual size.
+        let scale = if label.len() * 16 + GAP <= fb.width() {
+            2
+        } else {
+            1
+        };
         img.text(label, x, 8 + 4 * (2 - scale), scale, [232, 234, 240, 255]);
         img.blit(fb, x, LABEL_STRIP);
         x += fb.width() + GAP;
