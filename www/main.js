@@ -529,10 +529,52 @@ function setPlaying(on) {
   }
 }
 
-// Sweeps run in slices of SLICE_MS between frames, so the page keeps answering; the plot
-// is SVG drawn by the wasm module, and clicking it (or arrow keys on it) shows that step.
+// Sweeps and advice run in slices of SLICE_MS between frames, so the page keeps answering;
+// their plots are SVG drawn by the wasm module, and clicking one (or ← → on it) shows a step
+// or level.
 const SLICE_MS = 12;
-let sweeping = false;
+
+/**
+ * Calls `step` (one wasm call, one frame) until it returns false, SLICE_MS at a time with the
+ * page free in between; `after(more)` runs after each slice, `failed(error)` on an error.
+ * Returns a function that stops it.
+ */
+function runInSlices(step, after, failed) {
+  let stopped = false;
+  const slice = () => {
+    if (stopped) return;
+    const t0 = performance.now();
+    let more = true;
+    try {
+      while (more && performance.now() - t0 < SLICE_MS) more = step();
+    } catch (e) {
+      stopped = true;
+      failed(e);
+      return;
+    }
+    after(more);
+    if (more) setTimeout(slice, 0);
+  };
+  setTimeout(slice, 0);
+  return () => { stopped = true; };
+}
+
+/** Clicks on a plot's [data-pick] marks, and ← → while it has focus, pick item `i` of `count()`. */
+function bindPlot(box, count, current, pick) {
+  box.addEventListener("click", (e) => {
+    const hit = e.target.closest && e.target.closest("[data-pick]");
+    if (hit) pick(+hit.dataset.pick);
+  });
+  box.addEventListener("keydown", (e) => {
+    const step = { ArrowLeft: -1, ArrowRight: 1 }[e.key];
+    if (step === undefined) return;
+    const n = count();
+    if (n) pick((Math.max(0, current()) + step + n) % n);
+    e.preventDefault();
+  });
+}
+
+let stopSweep = null;
 let sweepCurrent = -1;
 
 function showSweepPlot() {
@@ -561,40 +603,29 @@ function showSweepSummary() {
 }
 
 function sweepDone(message) {
-  sweeping = false;
+  stopSweep = null;
   $("sweep").textContent = "Run sweep";
   $("sweep-progress").hidden = true;
   $("sweep-status").textContent = message;
   document.body.dataset.sweep = "done";
 }
 
-function sweepSlice() {
-  if (!sweeping) return;
-  const t0 = performance.now();
-  let more = true;
-  try {
-    while (more && performance.now() - t0 < SLICE_MS) more = viewer.sweepStep();
-  } catch (e) {
-    sweepDone("");
-    showProblem(`Sweep stopped: ${e.message || e}`);
-    return;
-  }
+function sweepProgressShown(more) {
   const [done, total] = viewer.sweepProgress();
   $("sweep-progress").value = done / Math.max(1, total);
   $("sweep-status").textContent = `${done} of ${total} steps`;
   $("sweep-result").hidden = false;
   showSweepPlot();
   showSweepSummary();
-  if (more) {
-    setTimeout(sweepSlice, 0);
-  } else {
+  if (!more) {
     sweepDone(`${total} steps measured. Click the plot to show an angle.`);
     requestRender(); // the panels show the current scene again
   }
 }
 
 function startSweep() {
-  if (sweeping) {
+  if (stopSweep) {
+    stopSweep();
     sweepDone("Stopped; the plot shows the steps measured so far.");
     requestRender();
     return;
@@ -608,7 +639,6 @@ function startSweep() {
   }
   showProblem("");
   if (playing) setPlaying(false);
-  sweeping = true;
   sweepCurrent = -1;
   document.body.dataset.sweep = "running";
   $("sweep").textContent = "Stop sweep";
@@ -616,7 +646,10 @@ function startSweep() {
   $("sweep-progress").value = 0;
   if ($("sweep-axis").value === "roll") $("sweep-metric").value = "probe_change";
   else if ($("sweep-metric").value === "probe_change") $("sweep-metric").value = "peak_luminance";
-  setTimeout(sweepSlice, 0);
+  stopSweep = runInSlices(() => viewer.sweepStep(), sweepProgressShown, (e) => {
+    sweepDone("");
+    showProblem(`Sweep stopped: ${e.message || e}`);
+  });
 }
 
 function jumpToStep(step) {
@@ -639,24 +672,14 @@ function bindMotion() {
   $("play").addEventListener("click", () => setPlaying(!playing));
   $("sweep").addEventListener("click", startSweep);
   $("sweep-metric").addEventListener("change", showSweepPlot);
-  $("sweep-plot").addEventListener("click", (e) => {
-    const hit = e.target.closest && e.target.closest("[data-pick]");
-    if (hit) jumpToStep(+hit.dataset.pick);
-  });
-  $("sweep-plot").addEventListener("keydown", (e) => {
-    const step = { ArrowLeft: -1, ArrowRight: 1 }[e.key];
-    if (step === undefined) return;
-    const [done] = viewer.sweepProgress();
-    if (done) jumpToStep((Math.max(0, sweepCurrent) + step + done) % done);
-    e.preventDefault();
-  });
+  bindPlot($("sweep-plot"), () => viewer.sweepProgress()[0], () => sweepCurrent, jumpToStep);
   $("save-sweep").addEventListener("click", () =>
     download("twinshade-sweep.csv", new Blob([viewer.sweepCsv()], { type: "text/csv" })));
 }
 
 // Advice runs like a sweep: in slices between frames, then a plot of error against lighting
 // evaluations (one point per level; clicking one shows that level) and a table.
-let advising = false;
+let stopAdvice = null;
 let adviceCurrent = -1;
 
 function showAdvice() {
@@ -693,39 +716,28 @@ function showAdvice() {
 }
 
 function adviceDone(message) {
-  advising = false;
+  stopAdvice = null;
   $("advise").textContent = "Advise";
   $("advice-progress").hidden = true;
   $("advice-status").textContent = message;
   document.body.dataset.advice = "done";
 }
 
-function adviceSlice() {
-  if (!advising) return;
-  const t0 = performance.now();
-  let more = true;
-  try {
-    while (more && performance.now() - t0 < SLICE_MS) more = viewer.adviceStep();
-  } catch (e) {
-    adviceDone("");
-    showProblem(`Advice stopped: ${e.message || e}`);
-    return;
-  }
+function adviceProgressShown(more) {
   const [done, total] = viewer.adviceProgress();
   $("advice-progress").value = done / Math.max(1, total);
   $("advice-status").textContent = `${done} frames rendered`;
   $("advice-result").hidden = false;
   showAdvice();
-  if (more) {
-    setTimeout(adviceSlice, 0);
-  } else {
+  if (!more) {
     adviceDone("Done. Click a point of the plot to show that level.");
     requestRender();
   }
 }
 
 function startAdvice() {
-  if (advising) {
+  if (stopAdvice) {
+    stopAdvice();
     adviceDone("Stopped; the table shows the levels measured so far.");
     requestRender();
     return;
@@ -738,13 +750,15 @@ function startAdvice() {
   }
   showProblem("");
   if (playing) setPlaying(false);
-  advising = true;
   adviceCurrent = -1;
   document.body.dataset.advice = "running";
   $("advise").textContent = "Stop advice";
   $("advice-progress").hidden = false;
   $("advice-progress").value = 0;
-  setTimeout(adviceSlice, 0);
+  stopAdvice = runInSlices(() => viewer.adviceStep(), adviceProgressShown, (e) => {
+    adviceDone("");
+    showProblem(`Advice stopped: ${e.message || e}`);
+  });
 }
 
 function jumpToLevel(i) {
@@ -765,17 +779,7 @@ function jumpToLevel(i) {
 
 function bindAdvice() {
   $("advise").addEventListener("click", startAdvice);
-  $("advice-plot").addEventListener("click", (e) => {
-    const hit = e.target.closest && e.target.closest("[data-pick]");
-    if (hit) jumpToLevel(+hit.dataset.pick);
-  });
-  $("advice-plot").addEventListener("keydown", (e) => {
-    const step = { ArrowLeft: -1, ArrowRight: 1 }[e.key];
-    if (step === undefined) return;
-    const a = viewer.advice();
-    if (a && a.rungs.length) jumpToLevel((Math.max(0, adviceCurrent) + step + a.rungs.length) % a.rungs.length);
-    e.preventDefault();
-  });
+  bindPlot($("advice-plot"), () => (viewer.advice()?.rungs.length ?? 0), () => adviceCurrent, jumpToLevel);
   $("save-advice").addEventListener("click", () => {
     const doc = { link: location.href, advice: viewer.advice() };
     download("twinshade-advice.json", new Blob([JSON.stringify(doc, null, 2)], { type: "application/json" }));
