@@ -138,37 +138,22 @@ fn ladder(scene: &Scene, method: SubdivisionMethod) -> Vec<Candidate> {
                 )
             })
             .collect(),
-        MeshSource::Shape(Shape::UvSphere { rings, segments }) => {
+        MeshSource::Shape(
+            original @ (Shape::UvSphere { rings, segments } | Shape::Vase { rings, segments }),
+        ) => {
+            // Rings up the ladder, segments keeping the shape's own proportion.
             let k = ratio(*rings, *segments);
             STEPS
                 .iter()
                 .filter(|&&r| (2..=256).contains(&r))
                 .map(|&r| {
                     let s = ((r as f32 * k).round() as u32).clamp(3, 512);
-                    shape(
-                        Shape::UvSphere {
-                            rings: r,
-                            segments: s,
-                        },
-                        format!("UV sphere {r} x {s}"),
-                    )
-                })
-                .collect()
-        }
-        MeshSource::Shape(Shape::Vase { rings, segments }) => {
-            let k = ratio(*rings, *segments);
-            STEPS
-                .iter()
-                .filter(|&&r| (2..=256).contains(&r))
-                .map(|&r| {
-                    let s = ((r as f32 * k).round() as u32).clamp(3, 512);
-                    shape(
-                        Shape::Vase {
-                            rings: r,
-                            segments: s,
-                        },
-                        format!("vase {r} x {s}"),
-                    )
+                    let (rings, segments) = (r, s);
+                    let next = match original {
+                        Shape::Vase { .. } => Shape::Vase { rings, segments },
+                        _ => Shape::UvSphere { rings, segments },
+                    };
+                    shape(next, format!("{} {r} x {s}", original.name()))
                 })
                 .collect()
         }

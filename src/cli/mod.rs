@@ -40,18 +40,8 @@ enum Command {
     },
     /// Render the panels of a scene to PNG files.
     Render {
-        /// Scene file (JSON); the built-in default scene when absent.
-        #[arg(long, conflicts_with = "preset")]
-        scene: Option<PathBuf>,
-        /// A built-in preset instead of a scene file (see `twinshade presets`).
-        #[arg(long)]
-        preset: Option<String>,
-        /// A mesh file (OBJ, STL, PLY, glTF or GLB) to render instead of the scene's shape.
-        #[arg(long)]
-        mesh: Option<PathBuf>,
-        /// Panel size, WIDTHxHEIGHT (overrides the scene's).
-        #[arg(long, value_parser = parse_size)]
-        size: Option<(u32, u32)>,
+        #[command(flatten)]
+        input: SceneArgs,
         /// Folder for gouraud.png, phong.png, difference.png and sheet.png (created if missing).
         #[arg(long)]
         out_dir: PathBuf,
@@ -62,18 +52,8 @@ enum Command {
     /// Turn the mesh (turntable) or roll the view through evenly spaced steps and measure each:
     /// panel peaks, dE00 between the panels, and for roll the change at fixed surface points.
     Sweep {
-        /// Scene file (JSON); the built-in default scene when absent.
-        #[arg(long, conflicts_with = "preset")]
-        scene: Option<PathBuf>,
-        /// A built-in preset instead of a scene file (see `twinshade presets`).
-        #[arg(long)]
-        preset: Option<String>,
-        /// A mesh file (OBJ, STL, PLY, glTF or GLB) instead of the scene's shape.
-        #[arg(long)]
-        mesh: Option<PathBuf>,
-        /// Panel size, WIDTHxHEIGHT (overrides the scene's).
-        #[arg(long, value_parser = parse_size)]
-        size: Option<(u32, u32)>,
+        #[command(flatten)]
+        input: SceneArgs,
         /// The rotation: the mesh about its up axis, or the view about its axis.
         #[arg(long, value_enum, default_value_t = AxisArg::Turntable)]
         axis: AxisArg,
@@ -99,18 +79,8 @@ enum Command {
     /// Find how much tessellation per-vertex lighting needs: finer and finer versions of the
     /// mesh, each swept on a turntable, until Gouraud stays within the threshold of Phong.
     Advise {
-        /// Scene file (JSON); the built-in default scene when absent.
-        #[arg(long, conflicts_with = "preset")]
-        scene: Option<PathBuf>,
-        /// A built-in preset instead of a scene file (see `twinshade presets`).
-        #[arg(long)]
-        preset: Option<String>,
-        /// A mesh file (OBJ, STL, PLY, glTF or GLB) instead of the scene's shape.
-        #[arg(long)]
-        mesh: Option<PathBuf>,
-        /// Panel size, WIDTHxHEIGHT (overrides the scene's): the view the costs refer to.
-        #[arg(long, value_parser = parse_size)]
-        size: Option<(u32, u32)>,
+        #[command(flatten)]
+        input: SceneArgs,
         /// The dE00 the 95th percentile must stay under (default: the scene's threshold).
         #[arg(long)]
         threshold: Option<f32>,
@@ -166,6 +136,35 @@ enum Command {
         #[arg(long)]
         out: PathBuf,
     },
+}
+
+/// Which scene, mesh and panel size a command works on.
+#[derive(clap::Args)]
+struct SceneArgs {
+    /// Scene file (JSON); the built-in default scene when absent.
+    #[arg(long, conflicts_with = "preset")]
+    scene: Option<PathBuf>,
+    /// A built-in preset instead of a scene file (see `twinshade presets`).
+    #[arg(long)]
+    preset: Option<String>,
+    /// A mesh file (OBJ, STL, PLY, glTF or GLB) instead of the scene's shape.
+    #[arg(long)]
+    mesh: Option<PathBuf>,
+    /// Panel size, WIDTHxHEIGHT (overrides the scene's).
+    #[arg(long, value_parser = parse_size)]
+    size: Option<(u32, u32)>,
+}
+
+impl SceneArgs {
+    /// The scene with `--size` and `--mesh` applied, a workbench holding the mesh, and the
+    /// mesh file's counts.
+    fn load(self) -> Result<(Scene, Workbench, Option<crate::import::MeshInfo>), String> {
+        prepare(
+            pick_scene(self.scene, self.preset)?,
+            self.mesh.as_deref(),
+            self.size,
+        )
+    }
 }
 
 #[derive(Clone, Copy, clap::ValueEnum)]
@@ -232,21 +231,12 @@ fn run(command: Command) -> Result<(), String> {
             })
         }
         Command::Render {
-            scene,
-            preset,
-            mesh,
-            size,
+            input,
             out_dir,
             metrics,
-        } => {
-            let scene = pick_scene(scene, preset)?;
-            render(scene, mesh.as_deref(), size, &out_dir, metrics.as_deref())
-        }
+        } => render(input.load()?, &out_dir, metrics.as_deref()),
         Command::Sweep {
-            scene,
-            preset,
-            mesh,
-            size,
+            input,
             axis,
             steps,
             degrees,
@@ -255,7 +245,7 @@ fn run(command: Command) -> Result<(), String> {
             metric,
             summary,
         } => {
-            let (scene, bench, _) = prepare(pick_scene(scene, preset)?, mesh.as_deref(), size)?;
+            let (scene, bench, _) = input.load()?;
             let settings = crate::sweep::SweepSettings {
                 axis: match axis {
                     AxisArg::Turntable => crate::sweep::SweepAxis::Turntable,
@@ -280,17 +270,14 @@ fn run(command: Command) -> Result<(), String> {
             )
         }
         Command::Advise {
-            scene,
-            preset,
-            mesh,
-            size,
+            input,
             threshold,
             steps,
             method,
             out,
             plot,
         } => {
-            let (scene, bench, _) = prepare(pick_scene(scene, preset)?, mesh.as_deref(), size)?;
+            let (scene, bench, _) = input.load()?;
             let settings = crate::advisor::AdviceSettings {
                 threshold: threshold.unwrap_or(scene.difference.threshold),
                 steps,
@@ -611,13 +598,10 @@ struct RenderMetrics<'a> {
 }
 
 fn render(
-    scene: Scene,
-    mesh: Option<&Path>,
-    size: Option<(u32, u32)>,
+    (scene, mut bench, mesh_info): (Scene, Workbench, Option<crate::import::MeshInfo>),
     out_dir: &Path,
     metrics: Option<&Path>,
 ) -> Result<(), String> {
-    let (scene, mut bench, mesh_info) = prepare(scene, mesh, size)?;
     std::fs::create_dir_all(out_dir)
         .map_err(|e| format!("cannot create {}: {e}", out_dir.display()))?;
     let report = *bench.render(&scene).map_err(|e| e.to_string())?;
