@@ -652,20 +652,28 @@ function startSweep() {
   });
 }
 
+/** Shows a picked sweep step or advice level: `jump` changes the scene in wasm. */
+function showPicked(jump, redraw) {
+  try {
+    jump();
+  } catch (e) {
+    showProblem(`${e.message || e}`);
+    return false;
+  }
+  $("preset").value = "";
+  syncControls();
+  redraw();
+  requestRender();
+  return true;
+}
+
 function jumpToStep(step) {
   const [done] = viewer.sweepProgress();
   if (!(step >= 0 && step < done)) return;
-  try {
+  showPicked(() => {
     viewer.sweepJump(step);
-  } catch (e) {
-    showProblem(`${e.message || e}`);
-    return;
-  }
-  sweepCurrent = step;
-  $("preset").value = "";
-  syncControls();
-  showSweepPlot();
-  requestRender();
+    sweepCurrent = step;
+  }, showSweepPlot);
 }
 
 function bindMotion() {
@@ -764,17 +772,10 @@ function startAdvice() {
 function jumpToLevel(i) {
   const a = viewer.advice();
   if (!a || !(i >= 0 && i < a.rungs.length)) return;
-  try {
+  showPicked(() => {
     viewer.adviceJump(i);
-  } catch (e) {
-    showProblem(`${e.message || e}`);
-    return;
-  }
-  adviceCurrent = i;
-  $("preset").value = "";
-  syncControls();
-  showAdvice();
-  requestRender();
+    adviceCurrent = i;
+  }, showAdvice);
 }
 
 function bindAdvice() {
