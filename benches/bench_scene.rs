@@ -82,7 +82,7 @@ fn page_frames(c: &mut Criterion) {
 /// goal: the sweep costs at most 1.2 times the frames). A "frame" is what a sweep step
 /// renders: both panels and the comparison, with the mesh turned one degree.
 fn sweep_cost(c: &mut Criterion) {
-    use twinshade::sweep::{Sweep, SweepAxis, SweepSettings};
+    use twinshade::analysis::{Sweep, SweepAxis, SweepSettings};
     let mut group = c.benchmark_group("sweep_256x256");
     group.sample_size(10);
     for (name, mut scene) in [

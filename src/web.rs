@@ -6,12 +6,12 @@
 //! pixel or per triangle crosses the boundary. A scene the page sends is validated whole; a
 //! bad one raises a JavaScript `Error` and leaves the previous scene in place.
 
-use crate::advisor::{AdviceSettings, Advisor};
-use crate::measure::Comparer;
-use crate::scene::{MeshSource, Scene};
-use crate::subdivide::SubdivisionMethod;
-use crate::sweep::{Sweep, SweepAxis, SweepMetric, SweepSettings};
-use crate::workbench::{Panel, Workbench};
+use crate::analysis::advisor::{AdviceSettings, Advisor};
+use crate::analysis::measure::Comparer;
+use crate::analysis::sweep::{Sweep, SweepAxis, SweepMetric, SweepSettings};
+use crate::analysis::workbench::{Panel, Workbench};
+use crate::geometry::subdivide::SubdivisionMethod;
+use crate::scene::definition::{MeshSource, Scene};
 use wasm_bindgen::prelude::*;
 
 fn js_error(msg: impl std::fmt::Display) -> JsValue {
@@ -108,14 +108,14 @@ impl Viewer {
     /// The current scene as link text for the URL fragment (see `share`).
     #[wasm_bindgen(js_name = shareFragment)]
     pub fn share_fragment(&self) -> String {
-        crate::share::encode(&self.scene)
+        crate::scene::link::encode(&self.scene)
     }
 
     /// Replaces the scene with one read from link text; on failure the scene is kept and a
     /// JavaScript `Error` says what is wrong with the link.
     #[wasm_bindgen(js_name = setSceneFromLink)]
     pub fn set_scene_from_link(&mut self, text: &str) -> Result<(), JsValue> {
-        let scene = crate::share::decode(text, self.scene.panel).map_err(js_error)?;
+        let scene = crate::scene::link::decode(text, self.scene.panel).map_err(js_error)?;
         if let MeshSource::File { name } = &scene.mesh {
             if self.mesh_name.as_deref() != Some(name.as_str()) {
                 return Err(js_error(format!(
@@ -134,7 +134,7 @@ impl Viewer {
     /// previous scene stays.
     #[wasm_bindgen(js_name = loadMesh)]
     pub fn load_mesh(&mut self, name: &str, bytes: &[u8]) -> Result<JsValue, JsValue> {
-        let imported = crate::import::import(name, bytes).map_err(js_error)?;
+        let imported = crate::geometry::import::import(name, bytes).map_err(js_error)?;
         let info = imported.info();
         self.bench.set_file_mesh(imported.mesh);
         self.mesh_name = Some(name.to_string());
@@ -148,7 +148,7 @@ impl Viewer {
 
     /// The presets as `[{id, title, caption}]`.
     pub fn presets() -> Result<JsValue, JsValue> {
-        let list: Vec<[&str; 3]> = crate::presets::presets()
+        let list: Vec<[&str; 3]> = crate::scene::presets::presets()
             .iter()
             .map(|p| [p.id, p.title, p.caption])
             .collect();
@@ -159,8 +159,8 @@ impl Viewer {
     /// Loads a preset by id, keeping the panel size.
     #[wasm_bindgen(js_name = loadPreset)]
     pub fn load_preset(&mut self, id: &str) -> Result<(), JsValue> {
-        let preset =
-            crate::presets::preset(id).ok_or_else(|| js_error(format!("no preset '{id}'")))?;
+        let preset = crate::scene::presets::preset(id)
+            .ok_or_else(|| js_error(format!("no preset '{id}'")))?;
         let mut scene = preset.scene;
         scene.panel = self.scene.panel;
         self.replace_scene(scene);
@@ -222,7 +222,7 @@ impl Viewer {
     pub fn set_turntable(&mut self, deg: f32) {
         if deg.is_finite() {
             self.scene
-                .set_rotation(crate::scene::axis_angle(glam::Vec3::Y, deg));
+                .set_rotation(crate::scene::definition::axis_angle(glam::Vec3::Y, deg));
         }
     }
 
@@ -279,7 +279,7 @@ impl Viewer {
     /// The report sheet of the last frame as `{width, height, rgba}` (RGBA bytes).
     #[wasm_bindgen(js_name = reportSheet)]
     pub fn report_sheet(&self) -> Result<JsValue, JsValue> {
-        let img = self.bench.report_sheet(&self.scene);
+        let img = crate::analysis::sheet::workbench_sheet(&self.bench, &self.scene);
         let out = js_sys::Object::new();
         let set = |k: &str, v: JsValue| js_sys::Reflect::set(&out, &JsValue::from_str(k), &v);
         set("width", JsValue::from(img.width as u32))?;
@@ -293,7 +293,7 @@ impl Viewer {
     pub fn report_csv(&self) -> String {
         self.bench
             .report()
-            .to_csv(&crate::share::encode(&self.scene))
+            .to_csv(&crate::scene::link::encode(&self.scene))
     }
 
     /// The last frame's report: metrics of the compared pair and the lighting cost.
@@ -306,7 +306,8 @@ impl Viewer {
     /// does; the page's play button calls it once per animation frame.
     pub fn spin(&mut self, deg: f32) {
         if deg.is_finite() {
-            let q = self.scene.rotation_quat() * crate::scene::axis_angle(glam::Vec3::Y, deg);
+            let q = self.scene.rotation_quat()
+                * crate::scene::definition::axis_angle(glam::Vec3::Y, deg);
             self.scene.set_rotation(q);
             self.panels_fresh = false;
         }

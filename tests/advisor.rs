@@ -1,10 +1,10 @@
 //! The tessellation advisor on the default glossy sphere and on a mesh without a resolution
 //! parameter.
 
-use twinshade::advisor::{AdviceSettings, Advisor};
+use twinshade::analysis::{AdviceSettings, Advisor};
+use twinshade::geometry::Shape;
+use twinshade::geometry::SubdivisionMethod;
 use twinshade::scene::{axis_angle, MeshSource};
-use twinshade::shapes::Shape;
-use twinshade::subdivide::SubdivisionMethod;
 use twinshade::{Scene, Workbench};
 
 fn small(mut s: Scene) -> Scene {
@@ -13,7 +13,7 @@ fn small(mut s: Scene) -> Scene {
     s
 }
 
-fn advise(scene: &Scene, settings: AdviceSettings) -> twinshade::advisor::Advice {
+fn advise(scene: &Scene, settings: AdviceSettings) -> twinshade::analysis::Advice {
     let mut bench = Workbench::new();
     if let MeshSource::File { .. } = scene.mesh {
         bench.set_file_mesh(Shape::Cube.build());
@@ -92,7 +92,7 @@ fn meshes_without_a_resolution_are_subdivided() {
     scene.mesh = MeshSource::File {
         name: "box.obj".into(),
     };
-    scene.lights[0].kind = twinshade::lighting::LightKind::Point;
+    scene.lights[0].kind = twinshade::shading::LightKind::Point;
     scene.lights[0].distance = 1.6;
     let a = advise(&scene, SETTINGS);
     assert_eq!(a.rungs[0].label, "as authored");

@@ -18,6 +18,8 @@ use std::sync::mpsc;
 use std::time::{Duration, Instant};
 use twinshade::{Panel, Scene, Workbench};
 
+mod common;
+
 const PANEL: (u32, u32) = (320, 240);
 
 fn tool(var: &str, default: &str) -> Option<PathBuf> {
@@ -366,11 +368,11 @@ async fn page_end_to_end() {
         .expect("base64");
     let file = std::env::temp_dir().join(format!("twinshade-sheet-{}.png", std::process::id()));
     std::fs::write(&file, &png).expect("write the sheet");
-    let (sw, sh, rgba) = twinshade::cli::read_png(&file).expect("the sheet decodes");
+    let (sw, sh, rgba) = common::read_png(&file).expect("the sheet decodes");
     let _ = std::fs::remove_file(&file);
     assert_eq!(json!([sw, sh]), json!([sheet[0], sheet[1]]), "sheet size");
     let (scene, bench) = native_render(&c).await;
-    let native = bench.report_sheet(&scene);
+    let native = twinshade::analysis::workbench_sheet(&bench, &scene);
     assert_eq!(
         (sw, sh),
         (native.width, native.height),
@@ -429,7 +431,7 @@ async fn page_end_to_end() {
     );
 
     // Every preset loads from the menu, with its caption.
-    for p in twinshade::presets::presets() {
+    for p in twinshade::scene::presets() {
         c.find(Locator::Css("#preset"))
             .await
             .expect("preset menu")
@@ -484,7 +486,7 @@ async fn page_end_to_end() {
         .await
         .expect("press Escape");
     let stopped = eval(&c, state).await;
-    let all = twinshade::presets::presets();
+    let all = twinshade::scene::presets();
     // The preset loop above left the last preset chosen: presenting starts there, and the
     // next one after the last is the first.
     let last = all.last().expect("presets").id;
@@ -562,7 +564,7 @@ async fn page_end_to_end() {
     let _ = std::fs::remove_dir_all(&dir);
 
     // ?mesh= loads a file hosted beside the page (www/pkg is the build folder, not in git).
-    let hosted = twinshade::cli::crate_root().join("www/pkg/test-hosted.stl");
+    let hosted = common::crate_root().join("www/pkg/test-hosted.stl");
     std::fs::write(
         &hosted,
         "solid t\nfacet normal 0 0 1\nouter loop\nvertex 0 0 0\nvertex 1 0 0\nvertex 0 1 0\nendloop\nendfacet\nendsolid t\n",
@@ -589,8 +591,8 @@ async fn page_end_to_end() {
     // clicking a point of it shows that step's scene.
     c.goto(&format!(
         "{page}#s={}",
-        twinshade::share::encode(&{
-            let mut s = twinshade::presets::preset("rolling-quads")
+        twinshade::scene::encode(&{
+            let mut s = twinshade::scene::preset("rolling-quads")
                 .expect("preset")
                 .scene;
             s.panel.width = PANEL.0;
@@ -620,10 +622,10 @@ async fn page_end_to_end() {
         assert!(Instant::now() < deadline, "the sweep did not finish");
         tokio::time::sleep(Duration::from_millis(100)).await;
     }
-    let mut native = twinshade::sweep::Sweep::new(
+    let mut native = twinshade::analysis::Sweep::new(
         &before,
-        twinshade::sweep::SweepSettings {
-            axis: twinshade::sweep::SweepAxis::Roll,
+        twinshade::analysis::SweepSettings {
+            axis: twinshade::analysis::SweepAxis::Roll,
             steps: 12,
             degrees: 360.0,
         },
@@ -683,12 +685,12 @@ async fn page_end_to_end() {
         assert!(Instant::now() < deadline, "the advice did not finish");
         tokio::time::sleep(Duration::from_millis(200)).await;
     }
-    let mut advisor = twinshade::advisor::Advisor::new(
+    let mut advisor = twinshade::analysis::Advisor::new(
         &start,
-        twinshade::advisor::AdviceSettings {
+        twinshade::analysis::AdviceSettings {
             threshold: start.difference.threshold,
             steps: 12,
-            method: twinshade::subdivide::SubdivisionMethod::Midpoint,
+            method: twinshade::geometry::SubdivisionMethod::Midpoint,
         },
     )
     .expect("native advisor");

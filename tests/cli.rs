@@ -2,7 +2,8 @@
 
 use std::path::PathBuf;
 use std::process::Command;
-use twinshade::cli::read_png;
+mod common;
+use common::read_png;
 use twinshade::{Framebuffer, Renderer, Scene, ShadingMode};
 
 fn twinshade(args: &[&str]) -> std::process::Output {
@@ -301,15 +302,15 @@ fn sweep_writes_the_library_series_and_plots() {
     let stdout = String::from_utf8_lossy(&out.stdout);
     assert!(stdout.contains("orientation variance"), "{stdout}");
 
-    let mut scene = twinshade::presets::preset("rolling-quads")
+    let mut scene = twinshade::scene::preset("rolling-quads")
         .expect("preset")
         .scene;
     scene.panel.width = 160;
     scene.panel.height = 120;
-    let mut sweep = twinshade::sweep::Sweep::new(
+    let mut sweep = twinshade::analysis::Sweep::new(
         &scene,
-        twinshade::sweep::SweepSettings {
-            axis: twinshade::sweep::SweepAxis::Roll,
+        twinshade::analysis::SweepSettings {
+            axis: twinshade::analysis::SweepAxis::Roll,
             steps: 8,
             degrees: 360.0,
         },
@@ -398,12 +399,12 @@ fn advise_writes_the_library_advice_and_a_plot() {
     let mut scene = Scene::default();
     scene.panel.width = 160;
     scene.panel.height = 120;
-    let mut advisor = twinshade::advisor::Advisor::new(
+    let mut advisor = twinshade::analysis::Advisor::new(
         &scene,
-        twinshade::advisor::AdviceSettings {
+        twinshade::analysis::AdviceSettings {
             threshold: 1.5,
             steps: 6,
-            method: twinshade::subdivide::SubdivisionMethod::Midpoint,
+            method: twinshade::geometry::SubdivisionMethod::Midpoint,
         },
     )
     .expect("advisor");

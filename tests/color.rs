@@ -1,6 +1,6 @@
 //! sRGB transfer functions and the 8-bit encoder against IEC 61966-2-1.
 
-use twinshade::color::{
+use twinshade::shading::{
     encode_srgb8, encode_srgb8_reference, linear_to_srgb, linear_to_srgb_f64, srgb_to_linear,
     srgb_to_linear_f64,
 };
@@ -66,7 +66,7 @@ fn table_encoder_agrees_with_the_reference() {
         );
     }
     // The single-comparison search relies on at most one threshold per table bucket.
-    assert_eq!(twinshade::color::max_thresholds_per_bucket(), 1);
+    assert_eq!(twinshade::shading::max_thresholds_per_bucket(), 1);
     assert_eq!(encode_srgb8(0.9999999), 255);
     assert_eq!(encode_srgb8(f32::NAN), 0);
     assert_eq!(encode_srgb8(-1.0), 0);

@@ -2,11 +2,12 @@
 //! Regenerate with `TWINSHADE_BLESS=1 cargo test --test golden` and review the PNGs.
 
 use std::path::PathBuf;
-use twinshade::camera::Projection;
-use twinshade::cli::{read_png, write_png};
-use twinshade::lighting::{Finish, LightKind, ReflectionModel};
+use twinshade::geometry::Projection;
+mod common;
+use common::{read_png, write_png};
+use twinshade::geometry::Shape;
 use twinshade::scene::{MeshSource, PanelSize};
-use twinshade::shapes::Shape;
+use twinshade::shading::{Finish, LightKind, ReflectionModel};
 use twinshade::{Framebuffer, Renderer, Scene, ShadingMode};
 
 fn scenes() -> Vec<(&'static str, Scene)> {
@@ -91,7 +92,7 @@ fn one_pass_pair_equals_separate_panels() {
     // Renderer::render_pair shares coverage, depth and interpolation between the Gouraud and
     // Phong panels; its bytes must be those of two separate renders.
     let mut scenes = scenes();
-    for p in twinshade::presets::presets() {
+    for p in twinshade::scene::presets() {
         scenes.push((
             p.id,
             Scene {

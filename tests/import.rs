@@ -2,10 +2,10 @@
 //! with its own message and place, and no panic on arbitrary bytes.
 
 use glam::Vec3;
-use twinshade::import::{import, Format, Location};
-use twinshade::mesh::{Mesh, MeshError, MAX_TRIANGLES};
+use twinshade::geometry::Shape;
+use twinshade::geometry::{import, Format, Location};
+use twinshade::geometry::{Mesh, MeshError, MAX_TRIANGLES};
 use twinshade::scene::{MeshSource, PanelSize};
-use twinshade::shapes::Shape;
 use twinshade::{Framebuffer, Renderer, Scene, ShadingMode};
 
 const CUBE_OBJ: &str = "# a cube of quads with face normals

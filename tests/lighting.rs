@@ -1,7 +1,7 @@
 //! The specular power without `powf` against the reference `powf` (libm 0.2, a port of
 //! musl's correctly-rounded-in-practice powf).
 
-use twinshade::lighting::specular_power;
+use twinshade::shading::specular_power;
 
 #[test]
 fn specular_power_matches_powf() {
@@ -33,8 +33,8 @@ fn four_lane_lighting_is_bit_identical_to_scalar() {
     // The vectorised path must give exactly the scalar bits (STYLE: one reference, identical
     // optimised path), for both reflection models, both projections and both light kinds.
     use glam::Vec3;
-    use twinshade::lanes::{F4, V4};
-    use twinshade::lighting::{Lighting, ReflectionModel};
+    use twinshade::shading::{Lighting, ReflectionModel};
+    use twinshade::shading::{F4, V4};
     use twinshade::Scene;
     let mut state = 0x9e37_79b9_7f4a_7c15u64;
     let mut next = || {
@@ -54,7 +54,7 @@ fn four_lane_lighting_is_bit_identical_to_scalar() {
             ..Scene::default()
         };
         if ortho {
-            scene.camera.projection = twinshade::camera::Projection::Orthographic;
+            scene.camera.projection = twinshade::geometry::Projection::Orthographic;
         }
         scene.material.shininess = 37.5;
         let frame = scene.camera.frame(4.0 / 3.0);

@@ -2,9 +2,10 @@
 
 use palette::color_difference::Ciede2000;
 use palette::{IntoColor, Lab as PLab, Srgb};
-use twinshade::measure::{ciede2000, delta_e76, srgb8_to_lab, Comparer, DifferenceSettings, Lab};
+use twinshade::analysis::{ciede2000, delta_e76, srgb8_to_lab, Comparer, Lab};
+use twinshade::geometry::Shape;
+use twinshade::scene::DifferenceSettings;
 use twinshade::scene::MeshSource;
-use twinshade::shapes::Shape;
 use twinshade::{Scene, Workbench};
 
 fn lab(l: f64, a: f64, b: f64) -> Lab {

@@ -84,7 +84,7 @@ fn a_two_million_triangle_mesh_fits_the_memory_budget() {
     PEAK.store(base, Ordering::Relaxed);
     let bytes = quad_grid_ply(1000);
     let file_bytes = bytes.len();
-    let imported = twinshade::import::import("grid.ply", &bytes).expect("imports");
+    let imported = twinshade::geometry::import("grid.ply", &bytes).expect("imports");
     assert_eq!(imported.info().triangles, 2_000_000);
     drop(bytes); // the page lets go of the file once imported, too
     let scene = Scene {

@@ -2,9 +2,9 @@
 //! Thuermer & Wuethrich 1998 and Max 1999).
 
 use glam::Vec3;
-use twinshade::mesh::Mesh;
-use twinshade::normals::{compute_normals, NormalWeighting};
-use twinshade::shapes::Shape;
+use twinshade::geometry::Mesh;
+use twinshade::geometry::Shape;
+use twinshade::geometry::{compute_normals, NormalWeighting};
 
 /// A unit cube of 12 triangles: each face split along one diagonal. The +z face is split
 /// along the diagonal that misses corner (1, 1, 1), the +x and +y faces along diagonals

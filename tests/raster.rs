@@ -1,7 +1,7 @@
 //! Coverage and interpolation of the rasterizer against published rules and values.
 
 use std::cell::Cell;
-use twinshade::raster::{draw_triangle, Cull, FragmentShader, RasterVertex, Target};
+use twinshade::pipeline::{draw_triangle, Cull, FragmentShader, RasterVertex, Target};
 
 /// Writes the first varying's bits as the pixel and counts fragments.
 struct Probe<'a>(&'a Cell<u32>);

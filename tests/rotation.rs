@@ -1,9 +1,9 @@
 //! Orientation dependence of scanline interpolation, the polygon modes, and rotation sweeps.
 
-use twinshade::raster::{draw_triangle, Batch, Cull, FragmentShader, RasterVertex, Target};
-use twinshade::scanline::{fill_polygon, sample_polygon};
-use twinshade::sweep::{Sweep, SweepAxis, SweepSettings};
-use twinshade::vertex_buffer::PolygonMode;
+use twinshade::analysis::{Sweep, SweepAxis, SweepSettings};
+use twinshade::geometry::PolygonMode;
+use twinshade::pipeline::{draw_triangle, Batch, Cull, FragmentShader, RasterVertex, Target};
+use twinshade::pipeline::{fill_polygon, sample_polygon};
 use twinshade::{Scene, Workbench};
 
 /// Writes the first varying's bits as the pixel.
@@ -193,7 +193,7 @@ fn fill_and_sample_agree_inside_a_quad() {
 }
 
 fn quad_grid_scene(mode: PolygonMode) -> Scene {
-    let mut s = twinshade::presets::preset("quad-split")
+    let mut s = twinshade::scene::preset("quad-split")
         .expect("the quad-split preset")
         .scene;
     s.polygons = mode;
@@ -202,7 +202,7 @@ fn quad_grid_scene(mode: PolygonMode) -> Scene {
     s
 }
 
-fn run(scene: &Scene, axis: SweepAxis, steps: u32) -> twinshade::sweep::SweepSummary {
+fn run(scene: &Scene, axis: SweepAxis, steps: u32) -> twinshade::analysis::SweepSummary {
     let mut bench = Workbench::new();
     let mut sweep = Sweep::new(
         scene,

@@ -1,12 +1,12 @@
 //! Shading paths against closed forms and measured artifacts.
 
 use glam::{Quat, Vec3};
-use twinshade::camera::Projection;
-use twinshade::color::encode_srgb8;
-use twinshade::lighting::{Light, LightKind, Material};
-use twinshade::mesh::Mesh;
+use twinshade::geometry::Mesh;
+use twinshade::geometry::Projection;
+use twinshade::geometry::Shape;
 use twinshade::scene::{MeshSource, PanelSize};
-use twinshade::shapes::Shape;
+use twinshade::shading::encode_srgb8;
+use twinshade::shading::{Light, LightKind, Material};
 use twinshade::{Framebuffer, Renderer, Scene, ShadingMode};
 
 /// A unit sphere seen orthographically along -z, lit by one white directional light along

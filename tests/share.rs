@@ -1,11 +1,11 @@
 //! Scenes in links: round trips, damage and truncation, presets.
 
-use twinshade::camera::Projection;
-use twinshade::lighting::{Finish, LightKind, ReflectionModel};
-use twinshade::presets::presets;
+use twinshade::geometry::Projection;
+use twinshade::geometry::Shape;
+use twinshade::scene::presets;
+use twinshade::scene::{decode, encode};
 use twinshade::scene::{MeshSource, PanelSize};
-use twinshade::shapes::Shape;
-use twinshade::share::{decode, encode};
+use twinshade::shading::{Finish, LightKind, ReflectionModel};
 use twinshade::{Scene, Workbench};
 
 const PANEL: PanelSize = PanelSize {

@@ -3,10 +3,10 @@
 
 use glam::Vec3;
 use std::collections::HashMap;
-use twinshade::mesh::Mesh;
+use twinshade::geometry::Mesh;
+use twinshade::geometry::Shape;
+use twinshade::geometry::{subdivide, Subdivision, SubdivisionMethod};
 use twinshade::scene::MeshSource;
-use twinshade::shapes::Shape;
-use twinshade::subdivide::{subdivide, Subdivision, SubdivisionMethod};
 use twinshade::{Scene, Workbench};
 
 fn corner_positions(m: &Mesh, t: usize) -> [Vec3; 3] {

@@ -10,14 +10,14 @@ mod png_out;
 mod server;
 mod webbuild;
 
-pub use png_out::{read_png, write_png};
-pub use webbuild::{build_wasm_pkg, build_web, crate_root};
+use webbuild::{build_wasm_pkg, build_web, crate_root};
 
-use crate::measure::{Comparer, DiffMetrics, DifferenceSettings};
-use crate::scene::Scene;
-use crate::workbench::{Panel, Workbench};
 use clap::{Parser, Subcommand};
 use std::path::{Path, PathBuf};
+use twinshade::analysis::{Comparer, DiffMetrics};
+use twinshade::analysis::{Panel, Workbench};
+use twinshade::scene::DifferenceSettings;
+use twinshade::scene::Scene;
 
 #[derive(Parser)]
 #[command(
@@ -158,7 +158,7 @@ struct SceneArgs {
 impl SceneArgs {
     /// The scene with `--size` and `--mesh` applied, a workbench holding the mesh, and the
     /// mesh file's counts.
-    fn load(self) -> Result<(Scene, Workbench, Option<crate::import::MeshInfo>), String> {
+    fn load(self) -> Result<(Scene, Workbench, Option<twinshade::geometry::MeshInfo>), String> {
         prepare(
             pick_scene(self.scene, self.preset)?,
             self.mesh.as_deref(),
@@ -246,18 +246,18 @@ fn run(command: Command) -> Result<(), String> {
             summary,
         } => {
             let (scene, bench, _) = input.load()?;
-            let settings = crate::sweep::SweepSettings {
+            let settings = twinshade::analysis::SweepSettings {
                 axis: match axis {
-                    AxisArg::Turntable => crate::sweep::SweepAxis::Turntable,
-                    AxisArg::Roll => crate::sweep::SweepAxis::Roll,
+                    AxisArg::Turntable => twinshade::analysis::SweepAxis::Turntable,
+                    AxisArg::Roll => twinshade::analysis::SweepAxis::Roll,
                 },
                 steps,
                 degrees,
             };
             let metric = match metric {
-                MetricArg::Peak => crate::sweep::SweepMetric::PeakLuminance,
-                MetricArg::De00 => crate::sweep::SweepMetric::De00,
-                MetricArg::Probes => crate::sweep::SweepMetric::ProbeChange,
+                MetricArg::Peak => twinshade::analysis::SweepMetric::PeakLuminance,
+                MetricArg::De00 => twinshade::analysis::SweepMetric::De00,
+                MetricArg::Probes => twinshade::analysis::SweepMetric::ProbeChange,
             };
             sweep(
                 &scene,
@@ -278,18 +278,18 @@ fn run(command: Command) -> Result<(), String> {
             plot,
         } => {
             let (scene, bench, _) = input.load()?;
-            let settings = crate::advisor::AdviceSettings {
+            let settings = twinshade::analysis::AdviceSettings {
                 threshold: threshold.unwrap_or(scene.difference.threshold),
                 steps,
                 method: match method {
-                    MethodArg::Midpoint => crate::subdivide::SubdivisionMethod::Midpoint,
-                    MethodArg::Pn => crate::subdivide::SubdivisionMethod::PnTriangles,
+                    MethodArg::Midpoint => twinshade::geometry::SubdivisionMethod::Midpoint,
+                    MethodArg::Pn => twinshade::geometry::SubdivisionMethod::PnTriangles,
                 },
             };
             advise(&scene, bench, settings, &out, plot.as_deref())
         }
         Command::Presets => {
-            for p in crate::presets::presets() {
+            for p in twinshade::scene::presets() {
                 println!("{:22} {}\n{:22} {}", p.id, p.title, "", p.caption);
             }
             Ok(())
@@ -309,7 +309,7 @@ fn run(command: Command) -> Result<(), String> {
         } => {
             let scene = match (default, file, preset) {
                 (_, Some(path), _) => load_scene(&path)?,
-                (_, None, Some(id)) => crate::presets::preset(&id)
+                (_, None, Some(id)) => twinshade::scene::preset(&id)
                     .map(|p| p.scene)
                     .ok_or_else(|| format!("no preset '{id}' (see `twinshade presets`)"))?,
                 (true, None, None) => Scene::default(),
@@ -318,7 +318,7 @@ fn run(command: Command) -> Result<(), String> {
                 }
             };
             if link {
-                println!("#s={}", crate::share::encode(&scene));
+                println!("#s={}", twinshade::scene::encode(&scene));
             } else {
                 println!("{}", scene.to_json());
             }
@@ -336,7 +336,7 @@ fn run(command: Command) -> Result<(), String> {
 fn pick_scene(file: Option<PathBuf>, preset: Option<String>) -> Result<Scene, String> {
     match (file, preset) {
         (Some(p), _) => load_scene(&p),
-        (None, Some(id)) => crate::presets::preset(&id)
+        (None, Some(id)) => twinshade::scene::preset(&id)
             .map(|p| p.scene)
             .ok_or_else(|| format!("no preset '{id}' (see `twinshade presets`)")),
         (None, None) => Ok(Scene::default()),
@@ -349,7 +349,7 @@ fn prepare(
     mut scene: Scene,
     mesh: Option<&Path>,
     size: Option<(u32, u32)>,
-) -> Result<(Scene, Workbench, Option<crate::import::MeshInfo>), String> {
+) -> Result<(Scene, Workbench, Option<twinshade::geometry::MeshInfo>), String> {
     if let Some((w, h)) = size {
         scene.panel.width = w;
         scene.panel.height = h;
@@ -360,7 +360,7 @@ fn prepare(
     if let Some(path) = mesh {
         let imported = load_mesh(path)?;
         info = Some(imported.info());
-        scene.mesh = crate::scene::MeshSource::File {
+        scene.mesh = twinshade::scene::MeshSource::File {
             name: imported.mesh.name.clone(),
         };
         bench.set_file_mesh(imported.mesh);
@@ -431,7 +431,7 @@ fn plot_is_svg(path: &Path) -> Result<bool, String> {
     }
 }
 
-fn write_plot(path: &Path, plot: &crate::plot::Plot) -> Result<(), String> {
+fn write_plot(path: &Path, plot: &twinshade::draw::Plot) -> Result<(), String> {
     if plot_is_svg(path)? {
         std::fs::write(path, plot.to_svg(800, 420))
             .map_err(|e| format!("cannot write {}: {e}", path.display()))?;
@@ -447,16 +447,16 @@ fn write_plot(path: &Path, plot: &crate::plot::Plot) -> Result<(), String> {
 fn sweep(
     scene: &Scene,
     mut bench: Workbench,
-    settings: crate::sweep::SweepSettings,
+    settings: twinshade::analysis::SweepSettings,
     out: &Path,
     plot: Option<&Path>,
-    metric: crate::sweep::SweepMetric,
+    metric: twinshade::analysis::SweepMetric,
     summary: Option<&Path>,
 ) -> Result<(), String> {
     if let Some(p) = plot {
         plot_is_svg(p)?;
     }
-    let mut sweep = crate::sweep::Sweep::new(scene, settings).map_err(|e| e.to_string())?;
+    let mut sweep = twinshade::analysis::Sweep::new(scene, settings).map_err(|e| e.to_string())?;
     let start = std::time::Instant::now();
     let mut progress = Progress::new("sweep", u64::from(settings.steps));
     let result = sweep.run(&mut bench, |done, total| {
@@ -504,14 +504,15 @@ fn sweep(
 fn advise(
     scene: &Scene,
     mut bench: Workbench,
-    settings: crate::advisor::AdviceSettings,
+    settings: twinshade::analysis::AdviceSettings,
     out: &Path,
     plot: Option<&Path>,
 ) -> Result<(), String> {
     if let Some(p) = plot {
         plot_is_svg(p)?;
     }
-    let mut advisor = crate::advisor::Advisor::new(scene, settings).map_err(|e| e.to_string())?;
+    let mut advisor =
+        twinshade::analysis::Advisor::new(scene, settings).map_err(|e| e.to_string())?;
     let start = std::time::Instant::now();
     let mut progress = Progress::new("advise", u64::from(advisor.total_frames()));
     let result = advisor.run(&mut bench, |done, total| {
@@ -566,14 +567,14 @@ fn load_scene(path: &Path) -> Result<Scene, String> {
 }
 
 /// Reads and imports a mesh file, reporting its counts on stderr.
-fn load_mesh(path: &Path) -> Result<crate::import::Imported, String> {
+fn load_mesh(path: &Path) -> Result<twinshade::geometry::Imported, String> {
     let bytes =
         std::fs::read(path).map_err(|e| format!("cannot read mesh {}: {e}", path.display()))?;
     let name = path.file_name().map_or_else(
         || path.display().to_string(),
         |n| n.to_string_lossy().into_owned(),
     );
-    let imported = crate::import::import(&name, &bytes).map_err(|e| e.to_string())?;
+    let imported = twinshade::geometry::import(&name, &bytes).map_err(|e| e.to_string())?;
     let info = imported.info();
     eprintln!(
         "twinshade: {}: {} vertices, {} faces, {} triangles, {} degenerate faces dropped, {} normals",
@@ -592,13 +593,13 @@ fn load_mesh(path: &Path) -> Result<crate::import::Imported, String> {
 #[derive(serde::Serialize)]
 struct RenderMetrics<'a> {
     #[serde(flatten)]
-    report: &'a crate::workbench::FrameReport,
+    report: &'a twinshade::analysis::FrameReport,
     #[serde(skip_serializing_if = "Option::is_none")]
-    mesh: Option<crate::import::MeshInfo>,
+    mesh: Option<twinshade::geometry::MeshInfo>,
 }
 
 fn render(
-    (scene, mut bench, mesh_info): (Scene, Workbench, Option<crate::import::MeshInfo>),
+    (scene, mut bench, mesh_info): (Scene, Workbench, Option<twinshade::geometry::MeshInfo>),
     out_dir: &Path,
     metrics: Option<&Path>,
 ) -> Result<(), String> {
@@ -615,7 +616,7 @@ fn render(
         png_out::write_png(&path, fb.width(), fb.height(), fb.bytes())?;
         eprintln!("twinshade: wrote {}", path.display());
     }
-    let img = bench.report_sheet(&scene);
+    let img = twinshade::analysis::workbench_sheet(&bench, &scene);
     let path = out_dir.join("sheet.png");
     png_out::write_png(&path, img.width, img.height, &img.rgba)?;
     eprintln!("twinshade: wrote {}", path.display());

@@ -1,0 +1,95 @@
+//! What a frame measured: the comparison's metrics, the lighting cost of each path, the
+//! panels by name, and the report as CSV.
+
+use crate::analysis::measure::DiffMetrics;
+use crate::scene::settings::ShadingMode;
+use serde::Serialize;
+
+/// Lighting evaluations per frame of each path: the cost side of the comparison.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Serialize)]
+pub struct LightingCost {
+    /// Gouraud: one evaluation per render vertex.
+    pub gouraud_vertices: u64,
+    /// Phong: one evaluation per shaded pixel.
+    pub phong_pixels: u64,
+    /// Exact reference: one evaluation per shaded pixel (0 when not rendered).
+    pub exact_pixels: u64,
+}
+
+/// What one frame of the workbench measured.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Serialize)]
+pub struct FrameReport {
+    /// Panel width in pixels.
+    pub width: u32,
+    /// Panel height in pixels.
+    pub height: u32,
+    /// Triangles drawn per panel.
+    pub triangles: u64,
+    /// The pair compared (A, B).
+    pub pair: [ShadingMode; 2],
+    /// The comparison of A against B.
+    pub metrics: DiffMetrics,
+    /// Lighting evaluations per path.
+    pub lighting: LightingCost,
+}
+
+impl FrameReport {
+    /// The report as two CSV lines: a header and the values.
+    pub fn to_csv(&self, link: &str) -> String {
+        let m = &self.metrics;
+        let header =
+            "pair_a,pair_b,width,height,triangles,covered_pixels,silhouette_mismatch_pixels,\
+de00_mean,de00_p95,de00_max,de76_mean,de76_p95,de76_max,threshold_de00,share_above_threshold,\
+peak_luminance_a,peak_luminance_b,peak_ratio,lighting_gouraud_vertices,lighting_phong_pixels,\
+lighting_exact_pixels,link";
+        format!(
+            "{header}\n{:?},{:?},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{link}\n",
+            self.pair[0],
+            self.pair[1],
+            self.width,
+            self.height,
+            self.triangles,
+            m.covered_pixels,
+            m.silhouette_mismatch_pixels,
+            m.de00.mean,
+            m.de00.p95,
+            m.de00.max,
+            m.de76.mean,
+            m.de76.p95,
+            m.de76.max,
+            m.threshold_de00,
+            m.share_above_threshold,
+            m.peak_luminance[0],
+            m.peak_luminance[1],
+            m.peak_ratio,
+            self.lighting.gouraud_vertices,
+            self.lighting.phong_pixels,
+            self.lighting.exact_pixels,
+        )
+    }
+}
+
+/// The panel labels of sheets: Gouraud, Phong and the difference.
+pub fn panel_labels(report: &FrameReport, scale_max: f32) -> [String; 3] {
+    [
+        ShadingMode::Gouraud.label().to_string(),
+        ShadingMode::Phong.label().to_string(),
+        format!(
+            "dE00 {:?} vs {:?} (0-{scale_max})",
+            report.pair[0], report.pair[1]
+        ),
+    ]
+}
+
+/// The workbench's panels.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Panel {
+    /// Per-vertex lighting.
+    Gouraud,
+    /// Per-pixel lighting.
+    Phong,
+    /// Exact-surface reference.
+    Exact,
+    /// The difference image of the compared pair.
+    Difference,
+}

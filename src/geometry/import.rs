@@ -1,0 +1,290 @@
+//! Mesh files from users: format detection, limits, errors that say what and where, and the
+//! clean-up every import gets (degenerate faces dropped, centred and scaled to the view).
+//!
+//! Formats: Wavefront OBJ ([`obj`]), STL binary and ASCII ([`stl`]), PLY ASCII and binary
+//! ([`ply`]), glTF 2.0 `.gltf` and `.glb` ([`gltf`], through the `gltf` crate). The OBJ, STL
+//! and PLY parsers are our own, small and strict: the crates we evaluated for them (`tobj` 4,
+//! `stl_io` 0.11, `ply-rs` 0.1) report failures without a line number or byte offset, and
+//! users must be told *where* a file is broken. Every parser works on bytes in memory (the page reads dropped files locally) and
+//! never panics: malformed input of any kind becomes an [`ImportError`].
+
+mod gltf;
+mod obj;
+mod ply;
+mod stl;
+
+use crate::geometry::mesh::{Mesh, MeshError, MAX_TRIANGLES};
+use serde::Serialize;
+use std::fmt;
+
+/// The largest file accepted, in bytes.
+pub const MAX_FILE_BYTES: usize = 256 * 1024 * 1024;
+
+/// A mesh file format.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Format {
+    /// Wavefront OBJ.
+    Obj,
+    /// Binary STL.
+    StlBinary,
+    /// ASCII STL.
+    StlAscii,
+    /// glTF 2.0, JSON with embedded buffers.
+    Gltf,
+    /// glTF 2.0, binary container.
+    Glb,
+    /// PLY, ASCII or binary.
+    Ply,
+}
+
+/// Where in a file a problem is.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum Location {
+    /// A line, counted from 1.
+    Line(usize),
+    /// A byte offset, counted from 0.
+    Byte(usize),
+    /// The whole file.
+    File,
+}
+
+/// Why a file could not be imported.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct ImportError {
+    /// The file's name as given.
+    pub file: String,
+    /// Where the problem is.
+    pub at: Location,
+    /// What is wrong, in plain words.
+    pub message: String,
+}
+
+impl fmt::Display for ImportError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match self.at {
+            Location::Line(n) => write!(f, "{}, line {n}: {}", self.file, self.message),
+            Location::Byte(b) => write!(f, "{}, byte {b}: {}", self.file, self.message),
+            Location::File => write!(f, "{}: {}", self.file, self.message),
+        }
+    }
+}
+
+impl std::error::Error for ImportError {}
+
+/// A parser's error before the file name is attached.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct ParseError {
+    /// Where.
+    pub at: Location,
+    /// What.
+    pub message: String,
+}
+
+impl ParseError {
+    /// An error at a line.
+    pub fn line(n: usize, message: impl Into<String>) -> Self {
+        ParseError {
+            at: Location::Line(n),
+            message: message.into(),
+        }
+    }
+
+    /// An error at a byte offset.
+    pub fn byte(b: usize, message: impl Into<String>) -> Self {
+        ParseError {
+            at: Location::Byte(b),
+            message: message.into(),
+        }
+    }
+
+    /// An error about the whole file.
+    pub fn file(message: impl Into<String>) -> Self {
+        ParseError {
+            at: Location::File,
+            message: message.into(),
+        }
+    }
+}
+
+/// An imported mesh and what was done to it.
+#[derive(Clone, Debug)]
+pub struct Imported {
+    /// The mesh, centred and scaled so its farthest vertex is at distance 1.
+    pub mesh: Mesh,
+    /// The detected format.
+    pub format: Format,
+    /// Faces dropped because they span no area.
+    pub dropped_faces: usize,
+    /// True when every corner had an authored normal.
+    pub has_normals: bool,
+}
+
+/// Counts reported for an imported mesh (page and `--metrics`).
+#[derive(Clone, Debug, Default, PartialEq, Serialize)]
+pub struct MeshInfo {
+    /// File name.
+    pub name: String,
+    /// Format, lowercase.
+    pub format: String,
+    /// Vertex positions.
+    pub vertices: usize,
+    /// Faces kept.
+    pub faces: usize,
+    /// Triangles after triangulation.
+    pub triangles: usize,
+    /// Degenerate faces dropped.
+    pub dropped_faces: usize,
+    /// Whether the file's own normals are used (else computed).
+    pub authored_normals: bool,
+}
+
+impl Imported {
+    /// The counts to show.
+    pub fn info(&self) -> MeshInfo {
+        MeshInfo {
+            name: self.mesh.name.clone(),
+            format: format!("{:?}", self.format).to_lowercase(),
+            vertices: self.mesh.positions.len(),
+            faces: self.mesh.face_count(),
+            triangles: self.mesh.triangle_count(),
+            dropped_faces: self.dropped_faces,
+            authored_normals: self.has_normals,
+        }
+    }
+}
+
+/// Detects the format from the bytes (and the name's extension where bytes do not decide).
+pub fn detect(name: &str, bytes: &[u8]) -> Result<Format, ParseError> {
+    let lower = name.to_ascii_lowercase();
+    if bytes.starts_with(b"glTF") {
+        return Ok(Format::Glb);
+    }
+    if bytes.starts_with(b"ply\n") || bytes.starts_with(b"ply\r\n") {
+        return Ok(Format::Ply);
+    }
+    if lower.ends_with(".ply") {
+        return Err(ParseError::byte(
+            0,
+            "not a PLY file: it does not start with 'ply'",
+        ));
+    }
+    if lower.ends_with(".gltf") || lower.ends_with(".glb") {
+        return if lower.ends_with(".glb") {
+            Err(ParseError::byte(
+                0,
+                "not a binary glTF file: it does not start with 'glTF'",
+            ))
+        } else {
+            Ok(Format::Gltf)
+        };
+    }
+    if stl::is_binary(bytes) {
+        return Ok(Format::StlBinary);
+    }
+    let head = &bytes[..bytes.len().min(512)];
+    let text = String::from_utf8_lossy(head).to_ascii_lowercase();
+    if lower.ends_with(".stl") || text.trim_start().starts_with("solid") {
+        if lower.ends_with(".stl") && !text.trim_start().starts_with("solid") && bytes.len() >= 84 {
+            let count = u32::from_le_bytes([bytes[80], bytes[81], bytes[82], bytes[83]]) as u64;
+            let need = 84 + 50 * count;
+            if need > bytes.len() as u64 {
+                return Err(ParseError::byte(
+                    bytes.len(),
+                    format!(
+                        "the file is cut short: its {count} triangles need {need} bytes, it has {}",
+                        bytes.len()
+                    ),
+                ));
+            }
+        }
+        if lower.ends_with(".stl") && !text.trim_start().starts_with("solid") {
+            return Err(ParseError::byte(
+                0,
+                "not an STL file: binary STL needs 84 + 50 x (triangle count) bytes and ASCII STL starts with 'solid'",
+            ));
+        }
+        return Ok(Format::StlAscii);
+    }
+    if lower.ends_with(".obj") {
+        return Ok(Format::Obj);
+    }
+    Err(ParseError::file(
+        "unrecognised mesh format (twinshade reads .obj, .stl, .ply, .gltf and .glb)",
+    ))
+}
+
+/// Imports a mesh file from its bytes.
+///
+/// # Errors
+/// An [`ImportError`] naming the file, the place and the problem.
+pub fn import(name: &str, bytes: &[u8]) -> Result<Imported, ImportError> {
+    let fail = |e: ParseError| ImportError {
+        file: name.to_string(),
+        at: e.at,
+        message: e.message,
+    };
+    if bytes.len() > MAX_FILE_BYTES {
+        return Err(fail(ParseError::file(format!(
+            "the file is {} MiB; the limit is {} MiB",
+            bytes.len() / (1024 * 1024),
+            MAX_FILE_BYTES / (1024 * 1024)
+        ))));
+    }
+    if bytes.is_empty() {
+        return Err(fail(ParseError::file("the file is empty")));
+    }
+    let format = detect(name, bytes).map_err(fail)?;
+    let mut mesh = match format {
+        Format::Obj => obj::parse(bytes),
+        Format::StlBinary => stl::parse_binary(bytes),
+        Format::StlAscii => stl::parse_ascii(bytes),
+        Format::Gltf | Format::Glb => gltf::parse(bytes),
+        Format::Ply => ply::parse(bytes),
+    }
+    .map_err(fail)?;
+    mesh.name = name.to_string();
+    let dropped_faces = mesh.drop_degenerate_faces();
+    mesh.validate().map_err(|e| {
+        fail(ParseError::file(match e {
+            MeshError::Empty if dropped_faces > 0 => {
+                format!("all {dropped_faces} faces are degenerate (no area)")
+            }
+            MeshError::TooLarge { count, .. } => {
+                format!("the mesh has {count} triangles; the limit is {MAX_TRIANGLES}")
+            }
+            other => other.to_string(),
+        }))
+    })?;
+    mesh.fit_unit();
+    let has_normals = mesh.has_normals();
+    Ok(Imported {
+        mesh,
+        format,
+        dropped_faces,
+        has_normals,
+    })
+}
+
+/// Reads three finite numbers after a keyword on a text line (OBJ `v`/`vn`, STL `vertex`).
+pub(crate) fn xyz<'a>(
+    tokens: &mut impl Iterator<Item = &'a str>,
+    keyword: &str,
+    line: usize,
+) -> Result<glam::Vec3, ParseError> {
+    let mut v = [0.0f32; 3];
+    for (k, slot) in v.iter_mut().enumerate() {
+        let t = tokens.next().ok_or_else(|| {
+            ParseError::line(line, format!("'{keyword}' needs 3 numbers, found {k}"))
+        })?;
+        *slot = number(t)
+            .ok_or_else(|| ParseError::line(line, format!("'{t}' is not a finite number")))?;
+    }
+    Ok(glam::Vec3::from(v))
+}
+
+/// Parses a decimal number of a text format (finite only).
+pub(crate) fn number(token: &str) -> Option<f32> {
+    let v: f32 = token.parse().ok()?;
+    v.is_finite().then_some(v)
+}

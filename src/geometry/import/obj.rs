@@ -1,0 +1,126 @@
+//! Wavefront OBJ: `v` positions, `vn` normals, `f` faces of any size (kept as polygons),
+//! negative (relative) indices, several objects and groups merged into one mesh. Texture
+//! coordinates, materials, smoothing groups, lines and points are read past.
+
+use super::{xyz, ParseError};
+use crate::geometry::mesh::{Corner, Mesh, MAX_TRIANGLES, NO_NORMAL};
+use glam::Vec3;
+
+/// Resolves a 1-based (or negative, relative) OBJ index against `len` elements.
+fn resolve(token: &str, len: usize, what: &str, line: usize) -> Result<u32, ParseError> {
+    let i: i64 = token
+        .parse()
+        .map_err(|_| ParseError::line(line, format!("'{token}' is not a {what} index")))?;
+    let resolved = if i > 0 { i - 1 } else { len as i64 + i };
+    if i == 0 || resolved < 0 || resolved >= len as i64 {
+        return Err(ParseError::line(
+            line,
+            format!("{what} index {i} is out of range (there are {len} so far)"),
+        ));
+    }
+    Ok(resolved as u32)
+}
+
+/// Parses OBJ text.
+///
+/// # Errors
+/// Non-UTF-8 bytes (with their offset), malformed numbers, bad or out-of-range indices and
+/// faces of fewer than three corners (with their line).
+pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
+    let text = std::str::from_utf8(bytes).map_err(|e| {
+        ParseError::byte(
+            e.valid_up_to(),
+            "the file is not UTF-8 text (is it really OBJ?)",
+        )
+    })?;
+    let mut mesh = Mesh::new("");
+    let mut corners: Vec<Corner> = Vec::new();
+    let mut triangles = 0usize;
+    for (i, raw) in text.lines().enumerate() {
+        let line = i + 1;
+        let content = raw.split('#').next().unwrap_or("").trim();
+        let mut tokens = content.split_ascii_whitespace();
+        let Some(keyword) = tokens.next() else {
+            continue;
+        };
+        match keyword {
+            "v" | "vn" => {
+                let v = xyz(&mut tokens, keyword, line)?;
+                if keyword == "v" {
+                    mesh.positions.push(v);
+                } else {
+                    mesh.normals.push(v.try_normalize().unwrap_or(Vec3::Z));
+                }
+            }
+            "f" => {
+                corners.clear();
+                for t in tokens {
+                    let mut parts = t.split('/');
+                    let p = resolve(
+                        parts.next().unwrap_or(""),
+                        mesh.positions.len(),
+                        "vertex",
+                        line,
+                    )?;
+                    let _texture = parts.next();
+                    let n = match parts.next() {
+                        Some(s) if !s.is_empty() => resolve(s, mesh.normals.len(), "normal", line)?,
+                        _ => NO_NORMAL,
+                    };
+                    corners.push(Corner {
+                        position: p,
+                        normal: n,
+                    });
+                }
+                if corners.len() < 3 {
+                    return Err(ParseError::line(
+                        line,
+                        format!(
+                            "a face needs at least 3 corners, this one has {}",
+                            corners.len()
+                        ),
+                    ));
+                }
+                triangles += corners.len() - 2;
+                if triangles > MAX_TRIANGLES {
+                    return Err(ParseError::line(
+                        line,
+                        format!(
+                            "more than {MAX_TRIANGLES} triangles; the limit is {MAX_TRIANGLES}"
+                        ),
+                    ));
+                }
+                mesh.push_face(&corners);
+            }
+            // Read past: texture coordinates, parameter-space vertices, grouping, materials,
+            // smoothing, lines, points, curves.
+            "vt" | "vp" | "o" | "g" | "s" | "usemtl" | "mtllib" | "l" | "p" | "cstype" | "deg"
+            | "curv" | "curv2" | "surf" | "parm" | "end" | "mg" | "bevel" | "c_interp"
+            | "d_interp" | "lod" | "shadow_obj" | "trace_obj" | "ctech" | "stech" => {}
+            other => {
+                return Err(ParseError::line(
+                    line,
+                    format!("unknown statement '{other}' (is this an OBJ file?)"),
+                ))
+            }
+        }
+    }
+    // A face that names normals for some corners but not others uses none.
+    let mut out = Mesh::new("");
+    out.positions = mesh.positions;
+    out.normals = mesh.normals;
+    for f in 0..mesh.face_starts.len().saturating_sub(1) {
+        let face = &mesh.corners[mesh.face_starts[f] as usize..mesh.face_starts[f + 1] as usize];
+        if face.iter().any(|c| c.normal == NO_NORMAL) {
+            corners.clear();
+            corners.extend(face.iter().map(|c| Corner {
+                position: c.position,
+                normal: NO_NORMAL,
+            }));
+            out.push_face(&corners);
+        } else {
+            out.push_face(face);
+        }
+    }
+    Ok(out)
+}

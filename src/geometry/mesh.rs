@@ -1,0 +1,276 @@
+//! Polygon meshes as authored: positions, optional normals, faces of any size.
+//!
+//! Faces are kept as the author wrote them (triangles, quads, n-gons) because the difference
+//! between interpolating over a polygon and over its triangles is one of the things twinshade
+//! shows. Each face corner names a position and, separately, a normal (as OBJ does), so hard
+//! edges are expressed by corners that share a position but not a normal. Triangulation
+//! happens later, on demand ([`crate::geometry::vertex_buffer`]).
+
+use glam::Vec3;
+use std::fmt;
+
+/// Marks a corner without an authored normal.
+pub const NO_NORMAL: u32 = u32::MAX;
+
+/// One corner of a face: indices into [`Mesh::positions`] and [`Mesh::normals`].
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
+pub struct Corner {
+    /// Index into `positions`.
+    pub position: u32,
+    /// Index into `normals`, or [`NO_NORMAL`].
+    pub normal: u32,
+}
+
+/// A polygon mesh. Invariant after [`Mesh::validate`]: every index is in range, every
+/// coordinate finite, every face has at least three corners.
+#[derive(Clone, Debug, Default, PartialEq)]
+pub struct Mesh {
+    /// A human-readable name (file name or shape name).
+    pub name: String,
+    /// Vertex positions, object space.
+    pub positions: Vec<Vec3>,
+    /// Authored normals (unit length expected), object space; may be empty.
+    pub normals: Vec<Vec3>,
+    /// Face corners, face after face.
+    pub corners: Vec<Corner>,
+    /// `corners[face_starts[f]..face_starts[f + 1]]` is face `f`; starts with 0.
+    pub face_starts: Vec<u32>,
+}
+
+/// What is wrong with a mesh.
+#[derive(Clone, Debug, PartialEq)]
+pub enum MeshError {
+    /// No faces (or no positions) at all.
+    Empty,
+    /// A position or normal has a NaN or infinite coordinate.
+    NonFinite {
+        /// "position" or "normal".
+        what: &'static str,
+        /// Its index.
+        index: usize,
+    },
+    /// A face corner names an element that does not exist.
+    IndexOutOfRange {
+        /// The face.
+        face: usize,
+        /// The index named.
+        index: u32,
+        /// How many elements there are.
+        len: usize,
+    },
+    /// A face with fewer than three corners.
+    TooFewCorners {
+        /// The face.
+        face: usize,
+    },
+    /// The mesh exceeds a stated limit.
+    TooLarge {
+        /// What was counted.
+        what: &'static str,
+        /// The count found.
+        count: usize,
+        /// The limit.
+        limit: usize,
+    },
+}
+
+impl fmt::Display for MeshError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match self {
+            MeshError::Empty => write!(f, "the mesh has no faces"),
+            MeshError::NonFinite { what, index } => {
+                write!(f, "{what} {index} has a NaN or infinite coordinate")
+            }
+            MeshError::IndexOutOfRange { face, index, len } => write!(
+                f,
+                "face {face} refers to element {index}, but there are only {len}"
+            ),
+            MeshError::TooFewCorners { face } => write!(f, "face {face} has fewer than 3 corners"),
+            MeshError::TooLarge { what, count, limit } => {
+                write!(f, "the mesh has {count} {what}; the limit is {limit}")
+            }
+        }
+    }
+}
+
+impl std::error::Error for MeshError {}
+
+/// The largest mesh twinshade accepts, in triangles after triangulation.
+pub const MAX_TRIANGLES: usize = 2_000_000;
+
+impl Mesh {
+    /// An empty mesh with a name.
+    pub fn new(name: impl Into<String>) -> Self {
+        Mesh {
+            name: name.into(),
+            face_starts: vec![0],
+            ..Default::default()
+        }
+    }
+
+    /// Adds a face from corners; returns its index.
+    pub fn push_face(&mut self, corners: &[Corner]) -> usize {
+        self.corners.extend_from_slice(corners);
+        self.end_face()
+    }
+
+    fn end_face(&mut self) -> usize {
+        if self.face_starts.is_empty() {
+            self.face_starts.push(0);
+        }
+        self.face_starts.push(self.corners.len() as u32);
+        self.face_starts.len() - 2
+    }
+
+    /// Adds a face whose corners use the same index for position and normal.
+    pub fn push_face_shared(&mut self, indices: &[u32]) -> usize {
+        self.corners.extend(indices.iter().map(|&i| Corner {
+            position: i,
+            normal: i,
+        }));
+        self.end_face()
+    }
+
+    /// Adds a face without normals.
+    pub fn push_face_positions(&mut self, indices: &[u32]) -> usize {
+        self.corners.extend(indices.iter().map(|&i| Corner {
+            position: i,
+            normal: NO_NORMAL,
+        }));
+        self.end_face()
+    }
+
+    /// Number of faces.
+    pub fn face_count(&self) -> usize {
+        self.face_starts.len().saturating_sub(1)
+    }
+
+    /// The corners of face `f`.
+    ///
+    /// # Panics
+    /// If `f >= face_count()`.
+    pub fn face(&self, f: usize) -> &[Corner] {
+        &self.corners[self.face_starts[f] as usize..self.face_starts[f + 1] as usize]
+    }
+
+    /// Iterates over the faces' corner lists.
+    pub fn faces(&self) -> impl Iterator<Item = &[Corner]> + '_ {
+        self.face_starts
+            .windows(2)
+            .map(move |w| &self.corners[w[0] as usize..w[1] as usize])
+    }
+
+    /// Triangles after triangulation (a face of n corners gives n - 2).
+    pub fn triangle_count(&self) -> usize {
+        self.faces().map(|f| f.len().saturating_sub(2)).sum()
+    }
+
+    /// True when every corner names an authored normal.
+    pub fn has_normals(&self) -> bool {
+        !self.normals.is_empty() && self.corners.iter().all(|c| c.normal != NO_NORMAL)
+    }
+
+    /// Checks the invariants stated on [`Mesh`] and the size limit.
+    ///
+    /// # Errors
+    /// The first problem found, naming the element.
+    pub fn validate(&self) -> Result<(), MeshError> {
+        if self.face_count() == 0 || self.positions.is_empty() {
+            return Err(MeshError::Empty);
+        }
+        let tris = self.triangle_count();
+        if tris > MAX_TRIANGLES {
+            return Err(MeshError::TooLarge {
+                what: "triangles",
+                count: tris,
+                limit: MAX_TRIANGLES,
+            });
+        }
+        for (what, list) in [("position", &self.positions), ("normal", &self.normals)] {
+            if let Some(index) = list.iter().position(|p| !p.is_finite()) {
+                return Err(MeshError::NonFinite { what, index });
+            }
+        }
+        for (face, corners) in self.faces().enumerate() {
+            if corners.len() < 3 {
+                return Err(MeshError::TooFewCorners { face });
+            }
+            for c in corners {
+                if c.position as usize >= self.positions.len() {
+                    return Err(MeshError::IndexOutOfRange {
+                        face,
+                        index: c.position,
+                        len: self.positions.len(),
+                    });
+                }
+                if c.normal != NO_NORMAL && c.normal as usize >= self.normals.len() {
+                    return Err(MeshError::IndexOutOfRange {
+                        face,
+                        index: c.normal,
+                        len: self.normals.len(),
+                    });
+                }
+            }
+        }
+        Ok(())
+    }
+
+    /// Axis-aligned bounds of the positions used by faces, or `None` for an empty mesh.
+    pub fn bounds(&self) -> Option<(Vec3, Vec3)> {
+        let mut it = self.positions.iter();
+        let first = *it.next()?;
+        Some(it.fold((first, first), |(lo, hi), &p| (lo.min(p), hi.max(p))))
+    }
+
+    /// Moves the bounding-box centre to the origin and scales so the farthest vertex is at
+    /// distance 1. Normals are unchanged (uniform scale). Returns the scale applied.
+    pub fn fit_unit(&mut self) -> f32 {
+        let Some((lo, hi)) = self.bounds() else {
+            return 1.0;
+        };
+        let centre = (lo + hi) * 0.5;
+        let r = self
+            .positions
+            .iter()
+            .map(|p| (*p - centre).length())
+            .fold(0.0f32, f32::max);
+        let s = if r > 0.0 { 1.0 / r } else { 1.0 };
+        for p in &mut self.positions {
+            *p = (*p - centre) * s;
+        }
+        s
+    }
+
+    /// Removes faces whose corners span no area (repeated positions, collinear corners);
+    /// returns how many were removed.
+    pub fn drop_degenerate_faces(&mut self) -> usize {
+        let mut kept = Mesh::new(std::mem::take(&mut self.name));
+        let mut dropped = 0;
+        for f in 0..self.face_count() {
+            let face = self.face(f);
+            if polygon_area_vector(&self.positions, face).length_squared() > 0.0 {
+                kept.push_face(face);
+            } else {
+                dropped += 1;
+            }
+        }
+        self.corners = kept.corners;
+        self.face_starts = kept.face_starts;
+        self.name = kept.name;
+        dropped
+    }
+}
+
+/// Twice the vector area of a polygon (Newell's method): its direction is the face normal
+/// (counter-clockwise corners give the outward normal), its length twice the area.
+pub fn polygon_area_vector(positions: &[Vec3], face: &[Corner]) -> Vec3 {
+    let n = face.len();
+    let mut acc = Vec3::ZERO;
+    let origin = positions[face[0].position as usize];
+    for i in 1..n.saturating_sub(1) {
+        let a = positions[face[i].position as usize] - origin;
+        let b = positions[face[i + 1].position as usize] - origin;
+        acc += a.cross(b);
+    }
+    acc
+}

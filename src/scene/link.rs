@@ -1,0 +1,117 @@
+//! Scenes in links: a compact, versioned, checksummed text for the URL fragment.
+//!
+//! A link carries only what differs from [`Scene::default`] (a JSON object holding the changed
+//! fields), compressed with zlib (whose Adler-32 trailer makes any truncation or corruption
+//! detectable) and written in URL-safe base64 without padding, behind a link-format prefix:
+//! `1.<base64url(zlib(json diff))>`. The panel size is left out: the receiver's page sizes its
+//! own panels. Decoding merges the diff into the defaults and validates the whole scene, so a
+//! link from an older build still opens (fields it lacks take today's defaults) and anything
+//! else is refused with a message.
+
+use crate::scene::definition::{Scene, SceneError};
+use base64::engine::general_purpose::URL_SAFE_NO_PAD;
+use base64::Engine;
+use serde_json::{Map, Value};
+
+/// The link format written by this build.
+const PREFIX: &str = "1.";
+/// Largest decompressed scene accepted from a link, in bytes.
+const MAX_JSON: usize = 64 * 1024;
+/// Largest link text accepted, in characters.
+const MAX_LINK: usize = 16 * 1024;
+
+/// The fields of `value` that differ from `base` (objects compared field by field).
+fn diff(value: &Value, base: &Value) -> Option<Value> {
+    match (value, base) {
+        (Value::Object(v), Value::Object(b)) => {
+            let mut out = Map::new();
+            for (k, x) in v {
+                match b.get(k) {
+                    Some(y) => {
+                        if let Some(d) = diff(x, y) {
+                            out.insert(k.clone(), d);
+                        }
+                    }
+                    None => {
+                        out.insert(k.clone(), x.clone());
+                    }
+                }
+            }
+            (!out.is_empty()).then_some(Value::Object(out))
+        }
+        _ => (value != base).then(|| value.clone()),
+    }
+}
+
+/// Writes `patch` over `base` (objects merged field by field, anything else replaced).
+fn merge(base: &mut Value, patch: Value) {
+    match (base, patch) {
+        (Value::Object(b), Value::Object(p)) => {
+            for (k, v) in p {
+                match b.get_mut(k.as_str()) {
+                    Some(slot) => merge(slot, v),
+                    None => {
+                        b.insert(k, v);
+                    }
+                }
+            }
+        }
+        (slot, v) => *slot = v,
+    }
+}
+
+fn scene_value(scene: &Scene) -> Value {
+    // A scene is plain data with string keys: conversion cannot fail.
+    let mut v = serde_json::to_value(scene).unwrap_or(Value::Null);
+    if let Value::Object(m) = &mut v {
+        m.remove("panel");
+    }
+    v
+}
+
+/// The link text (URL fragment payload) for a scene.
+pub fn encode(scene: &Scene) -> String {
+    let d = diff(&scene_value(scene), &scene_value(&Scene::default()))
+        .unwrap_or_else(|| Value::Object(Map::new()));
+    let json = d.to_string();
+    let packed = miniz_oxide::deflate::compress_to_vec_zlib(json.as_bytes(), 9);
+    format!("{PREFIX}{}", URL_SAFE_NO_PAD.encode(packed))
+}
+
+/// Reads a scene from link text made by [`encode`] (with or without a leading `#s=`). The
+/// panel size is `panel`'s.
+///
+/// # Errors
+/// A message saying what is wrong: unknown format, damaged or truncated data, or a scene that
+/// does not validate.
+pub fn decode(text: &str, panel: crate::scene::settings::PanelSize) -> Result<Scene, SceneError> {
+    let err = |m: &str| SceneError(format!("This link cannot be read: {m}"));
+    let text = text.trim_start_matches('#').trim_start_matches("s=");
+    if text.len() > MAX_LINK {
+        return Err(err("it is too long"));
+    }
+    let Some(body) = text.strip_prefix(PREFIX) else {
+        return Err(err(
+            "it is not a twinshade scene link (or is from a newer version)",
+        ));
+    };
+    let packed = URL_SAFE_NO_PAD
+        .decode(body)
+        .map_err(|_| err("it is damaged (not valid base64)"))?;
+    let json = miniz_oxide::inflate::decompress_to_vec_zlib_with_limit(&packed, MAX_JSON)
+        .map_err(|_| err("it is damaged or cut short"))?;
+    let patch: Value =
+        serde_json::from_slice(&json).map_err(|_| err("it does not hold a scene"))?;
+    if !patch.is_object() {
+        return Err(err("it does not hold a scene"));
+    }
+    let mut value = scene_value(&Scene::default());
+    merge(&mut value, patch);
+    let mut scene: Scene = serde_json::from_value(value)
+        .map_err(|e| SceneError(format!("This link's scene cannot be used: {e}")))?;
+    scene.panel = panel;
+    scene
+        .validate()
+        .map_err(|e| SceneError(format!("This link's scene cannot be used: {e}")))?;
+    Ok(scene)
+}

@@ -1,0 +1,15 @@
+//! The scene: every setting that decides the pixels as one typed, validated value, its
+//! settings types, links that carry it in a URL fragment, and the built-in presets.
+
+pub(crate) mod definition;
+pub(crate) mod link;
+pub(crate) mod presets;
+pub(crate) mod settings;
+
+pub use definition::{axis_angle, Scene, SceneError, SCENE_VERSION};
+pub use link::{decode, encode};
+pub use presets::{preset, presets, Preset};
+pub use settings::{
+    DifferenceSettings, MeshSource, NormalSettings, NormalSource, PanelSize, ShadingMode,
+    MAX_PANEL_SIDE,
+};

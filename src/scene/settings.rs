@@ -1,0 +1,125 @@
+//! The settings types a scene is made of: where the mesh comes from, normals, panel size,
+//! the shading modes and what the difference view compares. Plain data with serde names;
+//! ranges are checked by [`crate::scene::definition::Scene::validate`].
+
+use crate::geometry::normals::NormalWeighting;
+use crate::geometry::shapes::Shape;
+use serde::{Deserialize, Serialize};
+
+/// Largest panel side in pixels.
+pub const MAX_PANEL_SIDE: u32 = 4096;
+
+/// Where the mesh comes from.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum MeshSource {
+    /// A procedural shape.
+    Shape(Shape),
+    /// A mesh file supplied separately (dropped on the page or named on the command line);
+    /// the scene only names it.
+    File {
+        /// The file name, for display and links.
+        name: String,
+    },
+}
+
+/// Use the mesh's own normals or compute them.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default)]
+#[serde(rename_all = "lowercase")]
+pub enum NormalSource {
+    /// Authored normals where every corner has one; computed otherwise.
+    #[default]
+    Authored,
+    /// Always computed from the faces.
+    Computed,
+}
+
+/// How vertex normals are obtained.
+#[derive(Clone, Copy, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(default, deny_unknown_fields)]
+pub struct NormalSettings {
+    /// Authored or computed.
+    pub source: NormalSource,
+    /// Weights when computing.
+    pub weighting: NormalWeighting,
+    /// Crease angle in degrees when computing (180 = smooth everything).
+    pub crease_deg: f32,
+}
+
+impl Default for NormalSettings {
+    fn default() -> Self {
+        NormalSettings {
+            source: NormalSource::Authored,
+            weighting: NormalWeighting::Angle,
+            crease_deg: 180.0,
+        }
+    }
+}
+
+/// Panel size in pixels (each panel; all panels have the same size).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct PanelSize {
+    /// Width in pixels, 1..=[`MAX_PANEL_SIDE`].
+    pub width: u32,
+    /// Height in pixels, 1..=[`MAX_PANEL_SIDE`].
+    pub height: u32,
+}
+
+impl Default for PanelSize {
+    fn default() -> Self {
+        PanelSize {
+            width: 480,
+            height: 360,
+        }
+    }
+}
+
+/// Where lighting is computed.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Hash, Default)]
+#[serde(rename_all = "lowercase")]
+pub enum ShadingMode {
+    /// One colour per face.
+    Flat,
+    /// Per vertex, colours interpolated.
+    Gouraud,
+    /// Per pixel, normals interpolated.
+    #[default]
+    Phong,
+    /// Per pixel with the analytic surface's true normal.
+    Exact,
+}
+
+impl ShadingMode {
+    /// A label for the panel.
+    pub fn label(self) -> &'static str {
+        match self {
+            ShadingMode::Flat => "Flat (per face)",
+            ShadingMode::Gouraud => "Gouraud (per vertex)",
+            ShadingMode::Phong => "Phong (per pixel)",
+            ShadingMode::Exact => "Exact surface (reference)",
+        }
+    }
+}
+
+/// Settings of the difference view, shared by the page and the command line.
+#[derive(Clone, Copy, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(default, deny_unknown_fields)]
+pub struct DifferenceSettings {
+    /// The two shadings compared (A, B); any two of Gouraud, Phong and exact.
+    pub pair: [ShadingMode; 2],
+    /// The "just noticeable" threshold in dE00 (1.0 by common practice).
+    pub threshold: f32,
+    /// dE00 at the top of the colour scale.
+    pub scale_max: f32,
+}
+
+impl Default for DifferenceSettings {
+    fn default() -> Self {
+        DifferenceSettings {
+            pair: [ShadingMode::Gouraud, ShadingMode::Phong],
+            threshold: 1.0,
+            scale_max: 5.0,
+        }
+    }
+}

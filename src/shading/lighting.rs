@@ -1,0 +1,402 @@
+//! Illumination: lights, materials and the Phong / Blinn-Phong reflection models, in linear light.
+//!
+//! The same [`Lighting::shade`] is evaluated at vertices (Gouraud), at pixels (Phong) and on
+//! the exact surface (reference), so the panels differ only in *where* light is computed.
+//! - Phong's model (B. T. Phong, "Illumination for Computer Generated Pictures", CACM 18(6),
+//!   1975): specular = max(R . V, 0)^n with R the mirror of L about N.
+//! - Blinn-Phong (J. F. Blinn, "Models of Light Reflection for Computer Synthesized Pictures",
+//!   SIGGRAPH 1977): specular = max(N . H, 0)^n with H = normalize(L + V).
+//!
+//! Specular is added only where N . L > 0. Dielectric highlights take the light's colour,
+//! metallic highlights are tinted by the base colour. Point lights fall off as 1 / (1 + k d^2).
+
+use crate::geometry::camera::CameraFrame;
+use crate::shading::color::{parse_hex, srgb8_to_linear};
+use crate::shading::lanes::{F4, V4};
+use glam::Vec3;
+use serde::{Deserialize, Serialize};
+
+/// At most this many lights are used.
+pub const MAX_LIGHTS: usize = 4;
+
+/// The reflection model of the specular term.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default)]
+#[serde(rename_all = "snake_case")]
+pub enum ReflectionModel {
+    /// Phong 1975: reflection vector.
+    Phong,
+    /// Blinn 1977: half vector.
+    #[default]
+    BlinnPhong,
+}
+
+/// Directional or point light.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default)]
+#[serde(rename_all = "lowercase")]
+pub enum LightKind {
+    /// Parallel light from a direction.
+    #[default]
+    Directional,
+    /// Light from a point, with distance attenuation.
+    Point,
+}
+
+/// Dielectric (light-coloured highlights) or metal (base-tinted highlights).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default)]
+#[serde(rename_all = "lowercase")]
+pub enum Finish {
+    /// Plastic, glaze, paint: highlight in the light's colour.
+    #[default]
+    Dielectric,
+    /// Metal: highlight tinted by the base colour.
+    Metal,
+}
+
+/// A light fixed in world space.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(default, deny_unknown_fields)]
+pub struct Light {
+    /// Directional or point.
+    pub kind: LightKind,
+    /// Direction toward the light, degrees about +y from +z (toward +x).
+    pub azimuth_deg: f32,
+    /// Elevation of the direction toward the light, degrees above the xz plane.
+    pub elevation_deg: f32,
+    /// Point lights: distance of the light from the origin along that direction.
+    pub distance: f32,
+    /// Colour, sRGB `#rrggbb`.
+    pub color: String,
+    /// Multiplier of the colour (linear).
+    pub intensity: f32,
+    /// Point lights: k in 1 / (1 + k d^2), d in world units.
+    pub falloff: f32,
+}
+
+impl Default for Light {
+    fn default() -> Self {
+        Light {
+            kind: LightKind::Directional,
+            azimuth_deg: 35.0,
+            elevation_deg: 30.0,
+            distance: 2.5,
+            color: "#ffffff".into(),
+            intensity: 1.0,
+            falloff: 0.1,
+        }
+    }
+}
+
+impl Light {
+    /// Unit vector from the origin toward the light, world space.
+    pub fn direction(&self) -> Vec3 {
+        let (sa, ca) = (
+            libm::sinf(self.azimuth_deg.to_radians()),
+            libm::cosf(self.azimuth_deg.to_radians()),
+        );
+        let (se, ce) = (
+            libm::sinf(self.elevation_deg.to_radians()),
+            libm::cosf(self.elevation_deg.to_radians()),
+        );
+        Vec3::new(ce * sa, se, ce * ca)
+    }
+}
+
+/// Surface reflectance.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(default, deny_unknown_fields)]
+pub struct Material {
+    /// Base (diffuse) colour, sRGB `#rrggbb`.
+    pub base_color: String,
+    /// Ambient reflectance, times the base colour and the ambient light.
+    pub ambient: f32,
+    /// Diffuse reflectance, times the base colour.
+    pub diffuse: f32,
+    /// Specular reflectance.
+    pub specular: f32,
+    /// Specular exponent, 1..=2048.
+    pub shininess: f32,
+    /// Emitted colour, sRGB `#rrggbb`.
+    pub emissive: String,
+    /// Multiplier of the emitted colour (linear).
+    pub emissive_strength: f32,
+    /// Dielectric or metal highlights.
+    pub finish: Finish,
+}
+
+impl Default for Material {
+    fn default() -> Self {
+        Material {
+            base_color: "#2f8f83".into(),
+            ambient: 0.08,
+            diffuse: 0.9,
+            specular: 0.6,
+            shininess: 80.0,
+            emissive: "#000000".into(),
+            emissive_strength: 0.0,
+            finish: Finish::Dielectric,
+        }
+    }
+}
+
+#[derive(Clone, Copy, Debug, Default)]
+struct PreparedLight {
+    point: bool,
+    /// Direction toward the light (directional) or position (point), world space.
+    vector: Vec3,
+    color: Vec3,
+    falloff: f32,
+}
+
+/// Everything the reflection model needs for one frame, prepared once: linear colours,
+/// world-space light vectors and the eye.
+#[derive(Clone, Copy, Debug)]
+pub struct Lighting {
+    lights: [PreparedLight; MAX_LIGHTS],
+    count: usize,
+    constant: Vec3,
+    diffuse: Vec3,
+    specular: Vec3,
+    shininess: f32,
+    blinn: bool,
+    eye: Vec3,
+    toward_eye: Vec3,
+    orthographic: bool,
+}
+
+fn linear_of(hex: &str) -> Result<Vec3, String> {
+    Ok(Vec3::from(srgb8_to_linear(parse_hex(hex)?)))
+}
+
+impl Lighting {
+    /// Prepares lights and material for a frame.
+    ///
+    /// # Errors
+    /// A message when a colour is not `#rrggbb`.
+    pub fn new(
+        lights: &[Light],
+        ambient_light: &str,
+        material: &Material,
+        model: ReflectionModel,
+        camera: &CameraFrame,
+    ) -> Result<Lighting, String> {
+        let base = linear_of(&material.base_color)?;
+        let mut prepared = [PreparedLight::default(); MAX_LIGHTS];
+        for (slot, l) in prepared.iter_mut().zip(lights.iter()) {
+            let dir = l.direction();
+            *slot = PreparedLight {
+                point: l.kind == LightKind::Point,
+                vector: if l.kind == LightKind::Point {
+                    dir * l.distance
+                } else {
+                    dir
+                },
+                color: linear_of(&l.color)? * l.intensity,
+                falloff: l.falloff,
+            };
+        }
+        let spec_tint = match material.finish {
+            Finish::Dielectric => Vec3::ONE,
+            Finish::Metal => base,
+        };
+        Ok(Lighting {
+            lights: prepared,
+            count: lights.len().min(MAX_LIGHTS),
+            constant: base * linear_of(ambient_light)? * material.ambient
+                + linear_of(&material.emissive)? * material.emissive_strength,
+            diffuse: base * material.diffuse,
+            specular: spec_tint * material.specular,
+            shininess: material.shininess,
+            blinn: model == ReflectionModel::BlinnPhong,
+            eye: camera.eye,
+            toward_eye: camera.toward_eye,
+            orthographic: camera.orthographic,
+        })
+    }
+
+    /// Outgoing linear radiance at world position `p` with unit normal `n`.
+    #[inline]
+    pub fn shade(&self, n: Vec3, p: Vec3) -> Vec3 {
+        let v = if self.orthographic {
+            self.toward_eye
+        } else {
+            (self.eye - p).normalize_or_zero()
+        };
+        let mut col = self.constant;
+        for light in &self.lights[..self.count] {
+            let (l, c) = if light.point {
+                let d = light.vector - p;
+                let d2 = d.length_squared();
+                let att = 1.0 / (1.0 + light.falloff * d2);
+                (d.normalize_or_zero(), light.color * att)
+            } else {
+                (light.vector, light.color)
+            };
+            let ndl = n.dot(l);
+            if ndl > 0.0 {
+                let s = if self.blinn {
+                    n.dot((l + v).normalize_or_zero())
+                } else {
+                    (n * (2.0 * ndl) - l).dot(v)
+                };
+                let spec = if s > 0.0 {
+                    specular_power(s, self.shininess)
+                } else {
+                    0.0
+                };
+                col += (self.diffuse * ndl + self.specular * spec) * c;
+            }
+        }
+        col
+    }
+
+    /// [`Lighting::shade`] for four fragments at once: the same operations in the same order
+    /// in each lane, so each lane's result is bit-identical to the scalar call.
+    #[inline]
+    pub fn shade4(&self, n: V4, p: V4) -> V4 {
+        let v = if self.orthographic {
+            V4::splat(self.toward_eye)
+        } else {
+            (V4::splat(self.eye) - p).normalize_or_zero()
+        };
+        let mut col = V4::splat(self.constant);
+        for light in &self.lights[..self.count] {
+            let (l, c) = if light.point {
+                let d = V4::splat(light.vector) - p;
+                let d2 = d.dot(d);
+                let att = F4::splat(1.0) / (d2 * light.falloff + 1.0);
+                (
+                    d.normalize_or_zero(),
+                    V4 {
+                        x: att * light.color.x,
+                        y: att * light.color.y,
+                        z: att * light.color.z,
+                    },
+                )
+            } else {
+                (V4::splat(light.vector), V4::splat(light.color))
+            };
+            let ndl = n.dot(l);
+            let s = if self.blinn {
+                n.dot((l + v).normalize_or_zero())
+            } else {
+                (n.scale(ndl * 2.0) - l).dot(v)
+            };
+            let spec = F4::select(
+                s.gt(0.0),
+                specular_power4(s, self.shininess),
+                F4::splat(0.0),
+            );
+            let lit = ndl.gt(0.0);
+            let term = |d: f32, sp: f32, c: F4| (ndl * d + spec * sp) * c;
+            col = V4 {
+                x: F4::select(
+                    lit,
+                    col.x + term(self.diffuse.x, self.specular.x, c.x),
+                    col.x,
+                ),
+                y: F4::select(
+                    lit,
+                    col.y + term(self.diffuse.y, self.specular.y, c.y),
+                    col.y,
+                ),
+                z: F4::select(
+                    lit,
+                    col.z + term(self.diffuse.z, self.specular.z, c.z),
+                    col.z,
+                ),
+            };
+        }
+        col
+    }
+
+    /// The specular colour factor (used to find highlight pixels in measurements).
+    pub fn specular_color(&self) -> Vec3 {
+        self.specular
+    }
+}
+
+/// `x^n` for the specular lobe, x in (0, 1], n in [1, 2048], without `powf`.
+///
+/// Software `powf` costs about 44 ns a call in wasm (shared/peers/README.md) and was 43 % of a
+/// native frame of the bench scene (perf, before this change). The integer part of `n` is
+/// done by repeated squaring (exact up to rounding, at most 11 squarings); a fractional part
+/// `f` multiplies in `exp2(f log2 x)` from short polynomials. Only IEEE additions,
+/// multiplications and bit operations are used, in a fixed order, so every target gives the
+/// same bits. Relative error against `powf` (measured in tests/lighting.rs): 4.5e-5 at worst
+/// for integer `n` up to 2048 (n - 1 roundings compound), 5.2e-5 for fractional `n`.
+#[inline]
+pub fn specular_power(x: f32, n: f32) -> f32 {
+    let whole = n as u32; // n >= 1 by scene validation; truncation toward zero
+    let frac = n - whole as f32;
+    let mut result = 1.0f32;
+    let mut base = x;
+    let mut e = whole;
+    while e > 0 {
+        if e & 1 == 1 {
+            result *= base;
+        }
+        e >>= 1;
+        if e > 0 {
+            base *= base;
+        }
+    }
+    if frac > 0.0 {
+        result *= exp2_poly(frac * log2_poly(x));
+    }
+    result
+}
+
+/// [`specular_power`] in four lanes: the same steps, lane by lane (the exponent is shared).
+#[inline(always)]
+pub fn specular_power4(x: F4, n: f32) -> F4 {
+    let whole = n as u32;
+    let frac = n - whole as f32;
+    let mut result = F4::splat(1.0);
+    let mut base = x;
+    let mut e = whole;
+    while e > 0 {
+        if e & 1 == 1 {
+            result = result * base;
+        }
+        e >>= 1;
+        if e > 0 {
+            base = base * base;
+        }
+    }
+    if frac > 0.0 {
+        result = result * x.map(|v| exp2_poly(frac * log2_poly(v)));
+    }
+    result
+}
+
+/// log2(x) for x > 0 (normal floats): exponent from the bits, mantissa m in [1, 2) through
+/// log2(m) = 2 atanh(t) / ln 2 with t = (m - 1)/(m + 1), an odd series to t^9.
+#[inline]
+fn log2_poly(x: f32) -> f32 {
+    let bits = x.to_bits();
+    let exponent = ((bits >> 23) & 0xff) as i32 - 127;
+    let m = f32::from_bits((bits & 0x007f_ffff) | 0x3f80_0000);
+    let t = (m - 1.0) / (m + 1.0);
+    let t2 = t * t;
+    // 2/ln2 * (t + t^3/3 + t^5/5 + t^7/7 + t^9/9)
+    let series =
+        t * (1.0 + t2 * (1.0 / 3.0 + t2 * (1.0 / 5.0 + t2 * (1.0 / 7.0 + t2 * (1.0 / 9.0)))));
+    exponent as f32 + series * (2.0 * std::f32::consts::LOG2_E)
+}
+
+/// 2^y for y <= 0 (the specular case): integer part into the exponent bits, fractional part
+/// by a degree-6 Taylor polynomial of e^(f ln 2) on [0, 1).
+#[inline]
+fn exp2_poly(y: f32) -> f32 {
+    if y < -126.0 {
+        return 0.0;
+    }
+    let fl = y as i32 - i32::from(y < (y as i32) as f32); // floor for negative y
+    let f = y - fl as f32;
+    let z = f * std::f32::consts::LN_2;
+    let p = 1.0
+        + z * (1.0
+            + z * (0.5
+                + z * (1.0 / 6.0 + z * (1.0 / 24.0 + z * (1.0 / 120.0 + z * (1.0 / 720.0))))));
+    p * f32::from_bits(((fl + 127) as u32) << 23)
+}
