@@ -8,10 +8,12 @@
 
 use crate::analysis::advisor::{AdviceSettings, Advisor};
 use crate::analysis::measure::Comparer;
+use crate::analysis::report::Panel;
 use crate::analysis::sweep::{Sweep, SweepAxis, SweepMetric, SweepSettings};
-use crate::analysis::workbench::{Panel, Workbench};
+use crate::analysis::workbench::Workbench;
 use crate::geometry::subdivide::SubdivisionMethod;
-use crate::scene::definition::{MeshSource, Scene};
+use crate::scene::definition::Scene;
+use crate::scene::settings::MeshSource;
 use wasm_bindgen::prelude::*;
 
 fn js_error(msg: impl std::fmt::Display) -> JsValue {

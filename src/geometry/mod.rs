@@ -17,4 +17,4 @@ pub use mesh::{polygon_area_vector, Corner, Mesh, MeshError, MAX_TRIANGLES, NO_N
 pub use normals::{compute_normals, NormalWeighting};
 pub use shapes::Shape;
 pub use subdivide::{subdivide, triangles_after, Subdivision, SubdivisionMethod, MAX_LEVELS};
-pub use vertex_buffer::{PolygonMode, VertexBuffer};
+pub use vertex_buffer::{PolygonMode, VertexBuffer, MAX_CORNERS};

@@ -11,6 +11,10 @@ use glam::Vec3;
 use serde::{Deserialize, Serialize};
 use std::collections::HashMap;
 
+/// Most corners a polygon may have to be kept whole for the scanline fill (its edge table
+/// lives on the stack).
+pub const MAX_CORNERS: usize = 32;
+
 /// How faces with more than three corners are drawn. Triangles always take the triangle path.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
 #[serde(rename_all = "snake_case")]
@@ -28,7 +32,7 @@ pub enum PolygonMode {
     /// No split: the polygon is filled scanline by scanline, values interpolated along its
     /// left and right edges and then across each span (Gouraud 1971). The result depends on
     /// the polygon's orientation on screen. Polygons of more than
-    /// [`crate::pipeline::scanline::MAX_CORNERS`] corners, and those crossing a clip plane, are drawn as
+    /// [`MAX_CORNERS`] corners, and those crossing a clip plane, are drawn as
     /// authored instead.
     Scanline,
 }
@@ -114,9 +118,7 @@ impl VertexBuffer {
             let p = |i: usize| vb.positions[vb.polygon_vertices[s + i] as usize];
             let face = f as u32;
             match mode {
-                PolygonMode::Scanline
-                    if (4..=crate::pipeline::scanline::MAX_CORNERS).contains(&n) =>
-                {
+                PolygonMode::Scanline if (4..=MAX_CORNERS).contains(&n) => {
                     vb.scanline_faces.push(face);
                     vb.scanline_triangles += n - 2;
                 }

@@ -7,7 +7,9 @@ pub(crate) mod framebuffer;
 pub(crate) mod raster;
 pub(crate) mod render;
 pub(crate) mod scanline;
+pub(crate) mod shaders;
 pub(crate) mod surface;
+pub(crate) mod vertex_stage;
 
 pub use clip::{outcode, ClipPolygon, ClipVertex, GUARD, MAX_CLIPPED};
 pub use framebuffer::Framebuffer;
@@ -16,5 +18,6 @@ pub use raster::{
     RasterVertex, Target, SUBPIXEL_BITS,
 };
 pub use render::{PanelStats, Renderer};
-pub use scanline::{fill_polygon, sample_polygon, MAX_CORNERS};
+pub use scanline::{fill_polygon, sample_polygon};
 pub use surface::{linear_luminance, SurfacePoint};
+pub use vertex_stage::{project, StageKey, VertexStage};

@@ -19,17 +19,20 @@ use crate::geometry::camera::CameraFrame;
 use crate::geometry::mesh::Mesh;
 use crate::geometry::normals::compute_normals;
 use crate::geometry::shapes::Shape;
+use crate::geometry::vertex_buffer::MAX_CORNERS;
 use crate::geometry::vertex_buffer::{PolygonMode, VertexBuffer};
-use crate::pipeline::clip::{outcode, ClipPolygon, ClipVertex};
+use crate::pipeline::clip::{ClipPolygon, ClipVertex};
 use crate::pipeline::framebuffer::Framebuffer;
 use crate::pipeline::raster::{
     fill, snap_xy, Batch, Coverage, Cull, FragmentShader, RasterVertex, Target,
 };
-use crate::pipeline::scanline::{fill_polygon, MAX_CORNERS};
+use crate::pipeline::scanline::fill_polygon;
+use crate::pipeline::shaders::{Both, Constant, ExactSurface, PerPixel, VertexColor};
+use crate::pipeline::surface::{surface_points, Probe, SurfacePoint};
+use crate::pipeline::vertex_stage::{project, StageKey, VertexStage};
 use crate::scene::definition::{Scene, SceneError};
 use crate::scene::settings::{MeshSource, NormalSettings, NormalSource, ShadingMode};
 use crate::shading::color::{parse_hex, SrgbEncoder};
-use crate::shading::lanes::{F4, V4};
 use crate::shading::lighting::Lighting;
 use glam::{Mat3, Quat, Vec3, Vec4};
 use serde::Serialize;
@@ -46,39 +49,23 @@ pub struct PanelStats {
 }
 
 /// The mesh as prepared for drawing, with the settings it was prepared from.
-pub(crate) struct Geometry {
+struct Geometry {
     source: MeshSource,
     normals: NormalSettings,
     polygons: PolygonMode,
     subdivision: crate::geometry::subdivide::Subdivision,
     generation: u64,
-    pub(crate) vb: VertexBuffer,
+    vb: VertexBuffer,
     shape: Option<Shape>,
-}
-
-/// Inputs of the per-frame vertex work; when they repeat, the work is reused.
-#[derive(Clone, Copy, PartialEq)]
-struct FrameKey {
-    generation: u64,
-    rotation: [f32; 4],
-    camera: crate::geometry::camera::Camera,
-    width: usize,
-    height: usize,
 }
 
 /// Renders scenes into framebuffers. Holds the prepared mesh and per-frame scratch buffers.
 #[derive(Default)]
 pub struct Renderer {
     imported: Option<Mesh>,
-    pub(crate) geometry: Option<Geometry>,
+    geometry: Option<Geometry>,
     generation: u64,
-    frame_key: Option<FrameKey>,
-    pub(crate) world_pos: Vec<Vec3>,
-    pub(crate) world_nrm: Vec<Vec3>,
-    clip: Vec<Vec4>,
-    pub(crate) outcodes: Vec<u8>,
-    pub(crate) screen: Vec<[f32; 4]>,
-    fixed: Vec<[i64; 2]>,
+    stage: VertexStage,
     vertex_color: Vec<Vec3>,
     face_color: Vec<u32>,
 }
@@ -148,11 +135,7 @@ impl Renderer {
 
     /// Validates the scene, prepares geometry and the per-frame vertex work, and sizes and
     /// clears the framebuffers.
-    pub(crate) fn begin(
-        &mut self,
-        scene: &Scene,
-        fbs: &mut [&mut Framebuffer],
-    ) -> Result<Frame, SceneError> {
+    fn begin(&mut self, scene: &Scene, fbs: &mut [&mut Framebuffer]) -> Result<Frame, SceneError> {
         scene.validate()?;
         self.prepare_geometry(scene)?;
         let (width, height) = (scene.panel.width as usize, scene.panel.height as usize);
@@ -165,7 +148,20 @@ impl Renderer {
         }
         let camera = scene.camera.frame(width as f32 / height as f32);
         let rotation = scene.rotation_quat();
-        self.transform(scene, &camera, rotation, width, height);
+        if let Some(geo) = &self.geometry {
+            self.stage.run(
+                &geo.vb,
+                StageKey {
+                    generation: geo.generation,
+                    rotation: scene.rotation,
+                    camera: scene.camera,
+                    width,
+                    height,
+                },
+                &camera,
+                rotation,
+            );
+        }
         let lighting = Lighting::new(
             &scene.lights,
             &scene.ambient_light,
@@ -193,9 +189,10 @@ impl Renderer {
     fn light_vertices(&mut self, lighting: &Lighting) {
         self.vertex_color.clear();
         self.vertex_color.extend(
-            self.world_nrm
+            self.stage
+                .world_nrm()
                 .iter()
-                .zip(&self.world_pos)
+                .zip(self.stage.world_pos())
                 .map(|(n, p)| lighting.shade(*n, *p)),
         );
     }
@@ -220,10 +217,10 @@ impl Renderer {
         };
         let ctx = DrawContext {
             vb: &geo.vb,
-            clip: &self.clip,
-            outcodes: &self.outcodes,
-            screen: &self.screen,
-            fixed: &self.fixed,
+            clip: self.stage.clip(),
+            outcodes: self.stage.outcodes(),
+            screen: self.stage.screen(),
+            fixed: self.stage.fixed(),
             size: (f.width as f32, f.height as f32),
             cull: f.cull,
         };
@@ -242,7 +239,11 @@ impl Renderer {
                 enc: SrgbEncoder::new(),
             },
         };
-        let (c, n, p) = (&self.vertex_color, &self.world_nrm, &self.world_pos);
+        let (c, n, p) = (
+            &self.vertex_color,
+            self.stage.world_nrm(),
+            self.stage.world_pos(),
+        );
         let fragments = ctx.draw(
             &mut target,
             f.persp,
@@ -301,10 +302,10 @@ impl Renderer {
         };
         let ctx = DrawContext {
             vb: &geo.vb,
-            clip: &self.clip,
-            outcodes: &self.outcodes,
-            screen: &self.screen,
-            fixed: &self.fixed,
+            clip: self.stage.clip(),
+            outcodes: self.stage.outcodes(),
+            screen: self.stage.screen(),
+            fixed: self.stage.fixed(),
             size: (width as f32, height as f32),
             cull,
         };
@@ -330,14 +331,15 @@ impl Renderer {
                     let poly = vb.polygon(f);
                     let mut n = Vec3::ZERO;
                     let mut c = Vec3::ZERO;
-                    let p0 = self.world_pos[poly[0] as usize];
+                    let world = self.stage.world_pos();
+                    let p0 = world[poly[0] as usize];
                     for i in 1..poly.len() - 1 {
-                        let a = self.world_pos[poly[i] as usize] - p0;
-                        let b = self.world_pos[poly[i + 1] as usize] - p0;
+                        let a = world[poly[i] as usize] - p0;
+                        let b = world[poly[i + 1] as usize] - p0;
                         n += a.cross(b);
                     }
                     for &v in poly {
-                        c += self.world_pos[v as usize];
+                        c += world[v as usize];
                     }
                     let col = lighting.shade(n.normalize_or_zero(), c / poly.len() as f32);
                     self.face_color.push(enc.pack(col.x, col.y, col.z));
@@ -358,7 +360,7 @@ impl Renderer {
                 )
             }
             ShadingMode::Phong => {
-                let (n, p) = (&self.world_nrm, &self.world_pos);
+                let (n, p) = (self.stage.world_nrm(), self.stage.world_pos());
                 let shader = PerPixel {
                     lighting: &lighting,
                     enc,
@@ -397,70 +399,60 @@ impl Renderer {
         };
         Ok(stats)
     }
-
-    /// Transforms every render vertex to world and clip space and projects the ones inside
-    /// all clip planes to the screen. Skipped when nothing it depends on changed.
-    fn transform(
-        &mut self,
-        scene: &Scene,
-        camera: &CameraFrame,
-        rotation: Quat,
-        width: usize,
-        height: usize,
-    ) {
-        let Some(geo) = self.geometry.as_ref() else {
-            return;
-        };
-        let key = FrameKey {
-            generation: geo.generation,
-            rotation: scene.rotation,
-            camera: scene.camera,
-            width,
-            height,
-        };
-        if self.frame_key == Some(key) {
-            return;
-        }
-        let r = Mat3::from_quat(rotation);
-        let vb = &geo.vb;
-        let (w, h) = (width as f32, height as f32);
-        self.world_pos.clear();
-        self.world_nrm.clear();
-        self.clip.clear();
-        self.outcodes.clear();
-        self.screen.clear();
-        self.fixed.clear();
-        for (p, n) in vb.positions.iter().zip(&vb.normals) {
-            let pw = r * *p;
-            let c = camera.view_proj * pw.extend(1.0);
-            let code = outcode(c);
-            self.world_pos.push(pw);
-            self.world_nrm.push(r * *n);
-            self.clip.push(c);
-            self.outcodes.push(code);
-            let s = if code == 0 {
-                project(c, w, h)
-            } else {
-                [0.0; 4]
-            };
-            self.screen.push(s);
-            self.fixed.push(snap_xy(s[0], s[1]));
-        }
-        self.frame_key = Some(key);
-    }
 }
 
-/// Viewport transform of a clip-space point inside the clip volume: (x px, y px down, NDC z,
-/// 1/w). Pixel centres are at half-integers.
-#[inline(always)]
-pub(crate) fn project(c: Vec4, w: f32, h: f32) -> [f32; 4] {
-    let iw = 1.0 / c.w;
-    [
-        (c.x * iw + 1.0) * 0.5 * w,
-        (1.0 - c.y * iw) * 0.5 * h,
-        c.z * iw,
-        iw,
-    ]
+impl Renderer {
+    /// Probe points spread over the mesh of `scene` (see [`surface`](crate::pipeline::surface)):
+    /// the centroid and the point halfway to the first corner of up to `max / 2` faces, evenly
+    /// strided through the face list.
+    ///
+    /// # Errors
+    /// As [`Renderer::render`].
+    pub fn surface_points(
+        &mut self,
+        scene: &Scene,
+        max: usize,
+    ) -> Result<Vec<SurfacePoint>, SceneError> {
+        self.prepare_geometry(scene)?;
+        Ok(self
+            .geometry
+            .as_ref()
+            .map_or_else(Vec::new, |g| surface_points(&g.vb, max)))
+    }
+
+    /// The relative luminance (linear, before 8-bit encoding; see
+    /// [`linear_luminance`](crate::pipeline::surface::linear_luminance)) that per-vertex
+    /// (Gouraud) and per-pixel (Phong) lighting give at each probe in the view of `scene`,
+    /// into `out` (cleared first); NaN for probes that are off screen, on a culled face,
+    /// crossing a clip plane or hidden according to `depth` (the depth buffer of a frame of
+    /// this scene, as [`Renderer::render_pair`] leaves it).
+    ///
+    /// # Errors
+    /// As [`Renderer::render`].
+    pub fn sample_surface(
+        &mut self,
+        scene: &Scene,
+        depth: &[f32],
+        points: &[SurfacePoint],
+        out: &mut Vec<[f32; 2]>,
+    ) -> Result<(), SceneError> {
+        let f = self.begin(scene, &mut [])?;
+        let Some(geo) = self.geometry.as_ref() else {
+            return Err(SceneError("no mesh prepared".into()));
+        };
+        let probe = Probe {
+            stage: &self.stage,
+            lighting: &f.lighting,
+            rotation: Mat3::from_quat(f.rotation),
+            view_proj: f.camera.view_proj,
+            size: (f.width, f.height),
+            persp: f.persp,
+            cull: f.cull == Cull::Back,
+            depth,
+        };
+        probe.sample_all(&geo.vb, points, out);
+        Ok(())
+    }
 }
 
 /// Per-frame inputs shared by every triangle of a panel.
@@ -639,138 +631,12 @@ impl DrawContext<'_> {
 }
 
 /// The per-frame set-up shared by every panel.
-pub(crate) struct Frame {
-    pub(crate) camera: CameraFrame,
-    pub(crate) rotation: Quat,
-    pub(crate) lighting: Lighting,
-    pub(crate) width: usize,
-    pub(crate) height: usize,
-    pub(crate) cull: Cull,
-    pub(crate) persp: bool,
-}
-
-/// Gouraud and Phong at once: varyings 0..3 are the vertex colour, 3..9 the Phong normal and
-/// position; out come the Gouraud pixel (first buffer) and the Phong pixel (second).
-#[derive(Clone, Copy)]
-struct Both<'a> {
-    phong: PerPixel<'a>,
-}
-
-impl FragmentShader<9> for Both<'_> {
-    type Out = [u32; 2];
-    const BATCH: bool = true;
-
-    #[inline(always)]
-    fn shade(&self, v: &[f32; 9]) -> [u32; 2] {
-        let p = [v[3], v[4], v[5], v[6], v[7], v[8]];
-        [self.phong.enc.pack(v[0], v[1], v[2]), self.phong.shade(&p)]
-    }
-
-    #[inline(always)]
-    fn shade4(&self, v: &[[f32; 9]; 4]) -> [[u32; 2]; 4] {
-        let lanes = |k: usize| [v[k][3], v[k][4], v[k][5], v[k][6], v[k][7], v[k][8]];
-        let p = self.phong.shade4(&[lanes(0), lanes(1), lanes(2), lanes(3)]);
-        let g = |k: usize| self.phong.enc.pack(v[k][0], v[k][1], v[k][2]);
-        [[g(0), p[0]], [g(1), p[1]], [g(2), p[2]], [g(3), p[3]]]
-    }
-}
-
-/// Flat: a constant colour.
-#[derive(Clone, Copy)]
-struct Constant(u32);
-
-impl FragmentShader<0> for Constant {
-    type Out = u32;
-    #[inline(always)]
-    fn shade(&self, _: &[f32; 0]) -> u32 {
-        self.0
-    }
-}
-
-/// Gouraud: the interpolated linear colour, encoded.
-#[derive(Clone, Copy)]
-struct VertexColor {
-    enc: SrgbEncoder,
-}
-
-impl FragmentShader<3> for VertexColor {
-    type Out = u32;
-    #[inline(always)]
-    fn shade(&self, v: &[f32; 3]) -> u32 {
-        self.enc.pack(v[0], v[1], v[2])
-    }
-}
-
-/// Phong: renormalised interpolated normal, lit at the interpolated position.
-#[derive(Clone, Copy)]
-struct PerPixel<'a> {
-    lighting: &'a Lighting,
-    enc: SrgbEncoder,
-}
-
-impl FragmentShader<6> for PerPixel<'_> {
-    type Out = u32;
-    const BATCH: bool = true;
-
-    #[inline(always)]
-    fn shade(&self, v: &[f32; 6]) -> u32 {
-        let n = Vec3::new(v[0], v[1], v[2]).normalize_or_zero();
-        let c = self.lighting.shade(n, Vec3::new(v[3], v[4], v[5]));
-        self.enc.pack(c.x, c.y, c.z)
-    }
-
-    #[inline(always)]
-    fn shade4(&self, v: &[[f32; 6]; 4]) -> [u32; 4] {
-        let lane = |j: usize| F4::new([v[0][j], v[1][j], v[2][j], v[3][j]]);
-        let n = V4 {
-            x: lane(0),
-            y: lane(1),
-            z: lane(2),
-        }
-        .normalize_or_zero();
-        let p = V4 {
-            x: lane(3),
-            y: lane(4),
-            z: lane(5),
-        };
-        let c = self.lighting.shade4(n, p);
-        let (r, g, b) = (c.x.to_array(), c.y.to_array(), c.z.to_array());
-        let px = |k: usize| self.enc.pack(r[k], g[k], b[k]);
-        [px(0), px(1), px(2), px(3)]
-    }
-}
-
-/// Exact: the pixel's view ray is followed from the mesh's interpolated point to the analytic
-/// surface, which is lit there with its true normal (the nearest-point normal if the ray
-/// search does not settle).
-#[derive(Clone, Copy)]
-struct ExactSurface<'a> {
-    lighting: &'a Lighting,
-    enc: SrgbEncoder,
-    shape: Shape,
-    rotation: Mat3,
-    inverse: Mat3,
-    eye: Vec3,
-    toward_eye: Vec3,
-    orthographic: bool,
-}
-
-impl FragmentShader<3> for ExactSurface<'_> {
-    type Out = u32;
-    fn shade(&self, v: &[f32; 3]) -> u32 {
-        let p = Vec3::from_array(*v);
-        let world = self.rotation * p;
-        let ray = if self.orthographic {
-            -self.toward_eye
-        } else {
-            (world - self.eye).normalize_or_zero()
-        };
-        let (hit, n) = self
-            .shape
-            .exact_hit(p, self.inverse * ray)
-            .or_else(|| Some((p, self.shape.exact_normal(p)?)))
-            .unwrap_or((p, Vec3::Z));
-        let c = self.lighting.shade(self.rotation * n, self.rotation * hit);
-        self.enc.pack(c.x, c.y, c.z)
-    }
+struct Frame {
+    camera: CameraFrame,
+    rotation: Quat,
+    lighting: Lighting,
+    width: usize,
+    height: usize,
+    cull: Cull,
+    persp: bool,
 }

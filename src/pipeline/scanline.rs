@@ -20,8 +20,7 @@ use crate::pipeline::raster::{
     snap_xy, Batch, Cull, FragmentShader, Pixel, RasterVertex, Target, SUBPIXEL_BITS,
 };
 
-/// Most corners a polygon may have for the scanline fill (the edge table lives on the stack).
-pub const MAX_CORNERS: usize = 32;
+use crate::geometry::vertex_buffer::MAX_CORNERS;
 
 const ONE: i64 = 1 << SUBPIXEL_BITS;
 const HALF: i64 = ONE / 2;

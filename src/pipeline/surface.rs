@@ -8,11 +8,11 @@
 //! [`crate::pipeline::scanline::sample_polygon`]). A triangle's value at a probe is then the same at any
 //! roll of the view; a scanline-filled polygon's is not, and that change is the method's.
 
+use crate::geometry::vertex_buffer::{VertexBuffer, MAX_CORNERS};
 use crate::pipeline::clip::outcode;
 use crate::pipeline::raster::{sample_triangle, RasterVertex};
-use crate::pipeline::render::{project, Renderer};
-use crate::pipeline::scanline::{sample_polygon, MAX_CORNERS};
-use crate::scene::definition::{Scene, SceneError};
+use crate::pipeline::scanline::sample_polygon;
+use crate::pipeline::vertex_stage::{project, VertexStage};
 use crate::shading::lighting::Lighting;
 use glam::{Mat3, Vec3};
 
@@ -37,87 +37,60 @@ pub fn linear_luminance(c: Vec3) -> f32 {
     0.2126 * c.x + 0.7152 * c.y + 0.0722 * c.z
 }
 
-impl Renderer {
-    /// Probe points spread over the mesh of `scene`: the centroid and the point halfway to
-    /// the first corner of up to `max / 2` faces, evenly strided through the face list.
-    ///
-    /// # Errors
-    /// As [`Renderer::render`].
-    pub fn surface_points(
-        &mut self,
-        scene: &Scene,
-        max: usize,
-    ) -> Result<Vec<SurfacePoint>, SceneError> {
-        self.prepare_geometry(scene)?;
-        let faces = self.geometry.as_ref().map_or(0, |g| g.vb.polygon_count());
-        let stride = faces.div_ceil((max / 2).max(1)).max(1);
-        Ok((0..faces)
-            .step_by(stride)
-            .flat_map(|f| {
-                [0.0, 0.5].map(|t| SurfacePoint {
-                    face: f as u32,
-                    toward_corner: t,
-                })
+/// Probe points spread over `vb`: the centroid and the point halfway to the first corner of
+/// up to `max / 2` faces, evenly strided through the face list.
+pub(crate) fn surface_points(vb: &VertexBuffer, max: usize) -> Vec<SurfacePoint> {
+    let faces = vb.polygon_count();
+    let stride = faces.div_ceil((max / 2).max(1)).max(1);
+    (0..faces)
+        .step_by(stride)
+        .flat_map(|f| {
+            [0.0, 0.5].map(|t| SurfacePoint {
+                face: f as u32,
+                toward_corner: t,
             })
-            .take(max)
-            .collect())
-    }
-
-    /// The relative luminance (linear, before 8-bit encoding; see [`linear_luminance`]) that
-    /// per-vertex (Gouraud) and per-pixel (Phong) lighting give at each probe in the view of
-    /// `scene`, into `out` (cleared first); NaN for probes that are off screen, on a culled
-    /// face, crossing a clip plane or hidden according to `depth` (the depth buffer of a
-    /// frame of this scene, as [`Renderer::render_pair`] leaves it).
-    ///
-    /// # Errors
-    /// As [`Renderer::render`].
-    pub fn sample_surface(
-        &mut self,
-        scene: &Scene,
-        depth: &[f32],
-        points: &[SurfacePoint],
-        out: &mut Vec<[f32; 2]>,
-    ) -> Result<(), SceneError> {
-        let f = self.begin(scene, &mut [])?;
-        out.clear();
-        let Some(geo) = self.geometry.as_ref() else {
-            return Err(SceneError("no mesh prepared".into()));
-        };
-        let probe = Probe {
-            renderer: self,
-            lighting: &f.lighting,
-            rotation: Mat3::from_quat(f.rotation),
-            view_proj: f.camera.view_proj,
-            size: (f.width, f.height),
-            persp: f.persp,
-            cull: f.cull == crate::pipeline::raster::Cull::Back,
-            depth,
-        };
-        for p in points {
-            out.push(probe.sample(&geo.vb, *p).unwrap_or([f32::NAN; 2]));
-        }
-        Ok(())
-    }
+        })
+        .take(max)
+        .collect()
 }
 
-struct Probe<'a> {
-    renderer: &'a Renderer,
-    lighting: &'a Lighting,
-    rotation: Mat3,
-    view_proj: glam::Mat4,
-    size: (usize, usize),
-    persp: bool,
-    cull: bool,
-    depth: &'a [f32],
+/// What a probe needs of one frame: its vertex stage, lighting and view.
+pub(crate) struct Probe<'a> {
+    /// The frame's vertex stage (world positions, normals, screen positions, outcodes).
+    pub stage: &'a VertexStage,
+    /// The frame's lighting.
+    pub lighting: &'a Lighting,
+    /// Object-to-world rotation.
+    pub rotation: Mat3,
+    /// World-to-clip transform.
+    pub view_proj: glam::Mat4,
+    /// Panel size in pixels.
+    pub size: (usize, usize),
+    /// Perspective-correct interpolation.
+    pub persp: bool,
+    /// Back faces are culled.
+    pub cull: bool,
+    /// The frame's depth buffer.
+    pub depth: &'a [f32],
 }
 
 impl Probe<'_> {
-    /// (Gouraud, Phong) luminance at the point, or `None` when it cannot be seen.
-    fn sample(
+    /// (Gouraud, Phong) luminance at each of `points` into `out` (cleared first); NaN where a
+    /// probe cannot be seen.
+    pub(crate) fn sample_all(
         &self,
-        vb: &crate::geometry::vertex_buffer::VertexBuffer,
-        pt: SurfacePoint,
-    ) -> Option<[f32; 2]> {
+        vb: &VertexBuffer,
+        points: &[SurfacePoint],
+        out: &mut Vec<[f32; 2]>,
+    ) {
+        out.clear();
+        for p in points {
+            out.push(self.sample(vb, *p).unwrap_or([f32::NAN; 2]));
+        }
+    }
+
+    /// (Gouraud, Phong) luminance at the point, or `None` when it cannot be seen.
+    fn sample(&self, vb: &VertexBuffer, pt: SurfacePoint) -> Option<[f32; 2]> {
         let face = pt.face as usize;
         if face >= vb.polygon_count() {
             return None;
@@ -135,14 +108,14 @@ impl Probe<'_> {
         if !(x >= 0.0 && y >= 0.0 && x < w as f32 && y < h as f32) {
             return None;
         }
-        let r = self.renderer;
+        let st = self.stage;
         let vertex = |v: u32| -> Option<RasterVertex<9>> {
-            if r.outcodes[v as usize] != 0 {
+            if st.outcodes()[v as usize] != 0 {
                 return None;
             }
-            let (n, p) = (r.world_nrm[v as usize], r.world_pos[v as usize]);
+            let (n, p) = (st.world_nrm()[v as usize], st.world_pos()[v as usize]);
             let c = self.lighting.shade(n, p);
-            let s = r.screen[v as usize];
+            let s = st.screen()[v as usize];
             let mut var = [c.x, c.y, c.z, n.x, n.y, n.z, p.x, p.y, p.z];
             if self.persp {
                 for x in &mut var {

@@ -1,0 +1,137 @@
+//! The fragment stages: what each shading mode does with the varyings the rasterizer hands it
+//! (flat: a constant; Gouraud: the interpolated colour; Phong: the renormalised normal lit per
+//! pixel, four lanes at a time; exact: the analytic surface along the pixel's ray). Every one
+//! ends in the same exact sRGB encoder.
+
+use crate::geometry::shapes::Shape;
+use crate::pipeline::raster::FragmentShader;
+use crate::shading::color::SrgbEncoder;
+use crate::shading::lanes::{F4, V4};
+use crate::shading::lighting::Lighting;
+use glam::{Mat3, Vec3};
+
+/// Gouraud and Phong at once: varyings 0..3 are the vertex colour, 3..9 the Phong normal and
+/// position; out come the Gouraud pixel (first buffer) and the Phong pixel (second).
+#[derive(Clone, Copy)]
+pub(crate) struct Both<'a> {
+    pub phong: PerPixel<'a>,
+}
+
+impl FragmentShader<9> for Both<'_> {
+    type Out = [u32; 2];
+    const BATCH: bool = true;
+
+    #[inline(always)]
+    fn shade(&self, v: &[f32; 9]) -> [u32; 2] {
+        let p = [v[3], v[4], v[5], v[6], v[7], v[8]];
+        [self.phong.enc.pack(v[0], v[1], v[2]), self.phong.shade(&p)]
+    }
+
+    #[inline(always)]
+    fn shade4(&self, v: &[[f32; 9]; 4]) -> [[u32; 2]; 4] {
+        let lanes = |k: usize| [v[k][3], v[k][4], v[k][5], v[k][6], v[k][7], v[k][8]];
+        let p = self.phong.shade4(&[lanes(0), lanes(1), lanes(2), lanes(3)]);
+        let g = |k: usize| self.phong.enc.pack(v[k][0], v[k][1], v[k][2]);
+        [[g(0), p[0]], [g(1), p[1]], [g(2), p[2]], [g(3), p[3]]]
+    }
+}
+
+/// Flat: a constant colour.
+#[derive(Clone, Copy)]
+pub(crate) struct Constant(pub u32);
+
+impl FragmentShader<0> for Constant {
+    type Out = u32;
+    #[inline(always)]
+    fn shade(&self, _: &[f32; 0]) -> u32 {
+        self.0
+    }
+}
+
+/// Gouraud: the interpolated linear colour, encoded.
+#[derive(Clone, Copy)]
+pub(crate) struct VertexColor {
+    pub enc: SrgbEncoder,
+}
+
+impl FragmentShader<3> for VertexColor {
+    type Out = u32;
+    #[inline(always)]
+    fn shade(&self, v: &[f32; 3]) -> u32 {
+        self.enc.pack(v[0], v[1], v[2])
+    }
+}
+
+/// Phong: renormalised interpolated normal, lit at the interpolated position.
+#[derive(Clone, Copy)]
+pub(crate) struct PerPixel<'a> {
+    pub lighting: &'a Lighting,
+    pub enc: SrgbEncoder,
+}
+
+impl FragmentShader<6> for PerPixel<'_> {
+    type Out = u32;
+    const BATCH: bool = true;
+
+    #[inline(always)]
+    fn shade(&self, v: &[f32; 6]) -> u32 {
+        let n = Vec3::new(v[0], v[1], v[2]).normalize_or_zero();
+        let c = self.lighting.shade(n, Vec3::new(v[3], v[4], v[5]));
+        self.enc.pack(c.x, c.y, c.z)
+    }
+
+    #[inline(always)]
+    fn shade4(&self, v: &[[f32; 6]; 4]) -> [u32; 4] {
+        let lane = |j: usize| F4::new([v[0][j], v[1][j], v[2][j], v[3][j]]);
+        let n = V4 {
+            x: lane(0),
+            y: lane(1),
+            z: lane(2),
+        }
+        .normalize_or_zero();
+        let p = V4 {
+            x: lane(3),
+            y: lane(4),
+            z: lane(5),
+        };
+        let c = self.lighting.shade4(n, p);
+        let (r, g, b) = (c.x.to_array(), c.y.to_array(), c.z.to_array());
+        let px = |k: usize| self.enc.pack(r[k], g[k], b[k]);
+        [px(0), px(1), px(2), px(3)]
+    }
+}
+
+/// Exact: the pixel's view ray is followed from the mesh's interpolated point to the analytic
+/// surface, which is lit there with its true normal (the nearest-point normal if the ray
+/// search does not settle).
+#[derive(Clone, Copy)]
+pub(crate) struct ExactSurface<'a> {
+    pub lighting: &'a Lighting,
+    pub enc: SrgbEncoder,
+    pub shape: Shape,
+    pub rotation: Mat3,
+    pub inverse: Mat3,
+    pub eye: Vec3,
+    pub toward_eye: Vec3,
+    pub orthographic: bool,
+}
+
+impl FragmentShader<3> for ExactSurface<'_> {
+    type Out = u32;
+    fn shade(&self, v: &[f32; 3]) -> u32 {
+        let p = Vec3::from_array(*v);
+        let world = self.rotation * p;
+        let ray = if self.orthographic {
+            -self.toward_eye
+        } else {
+            (world - self.eye).normalize_or_zero()
+        };
+        let (hit, n) = self
+            .shape
+            .exact_hit(p, self.inverse * ray)
+            .or_else(|| Some((p, self.shape.exact_normal(p)?)))
+            .unwrap_or((p, Vec3::Z));
+        let c = self.lighting.shade(self.rotation * n, self.rotation * hit);
+        self.enc.pack(c.x, c.y, c.z)
+    }
+}
