@@ -5,7 +5,7 @@
 //! it ran on is printed first (record figures with it).
 
 use criterion::{criterion_group, criterion_main, BenchmarkId, Criterion};
-use twinshade::{Scene, Workbench};
+use twinshade::{Scene, ValidScene, Workbench};
 
 fn environment() {
     let cpu = std::fs::read_to_string("/proc/cpuinfo")
@@ -33,9 +33,11 @@ fn frames(c: &mut Criterion) {
         let mut frame = 0u32;
         // Warm up: geometry built, buffers sized.
         bench
-            .render_panels(&Scene::bench(level, w, h, 0))
+            .render_panels(&Scene::bench(level, w, h, 0).checked().expect("valid scene"))
             .expect("bench scene renders");
-        let scenes: Vec<Scene> = (0..360).map(|f| Scene::bench(level, w, h, f)).collect();
+        let scenes: Vec<ValidScene> = (0..360)
+            .map(|f| Scene::bench(level, w, h, f).checked().expect("valid scene"))
+            .collect();
         group.bench_function(
             BenchmarkId::from_parameter(format!("L{level}_{w}x{h}")),
             |b| {
@@ -60,6 +62,7 @@ fn page_frames(c: &mut Criterion) {
         let mut scene = Scene::default();
         scene.panel.width = w;
         scene.panel.height = h;
+        let mut scene = scene.checked().expect("valid scene");
         let mut bench = Workbench::new();
         bench.render(&scene).expect("default scene renders");
         group.bench_function(
@@ -91,9 +94,10 @@ fn sweep_cost(c: &mut Criterion) {
     ] {
         scene.panel.width = 256;
         scene.panel.height = 256;
+        let scene = scene.checked().expect("valid scene");
         let mut bench = Workbench::new();
         bench.render(&scene).expect("renders");
-        let turned: Vec<Scene> = (0..360)
+        let turned: Vec<ValidScene> = (0..360)
             .map(|d| {
                 let mut s = scene.clone();
                 s.set_rotation(

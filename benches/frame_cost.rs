@@ -26,7 +26,10 @@ fn main() {
     let mut fbs: Vec<Framebuffer> = modes.iter().map(|_| Framebuffer::new(0, 0)).collect();
     let mut fragments = 0u64;
     for f in 0..frames {
-        let scene = Scene::bench(level, w, h, f);
+        let Ok(scene) = Scene::bench(level, w, h, f).validated() else {
+            eprintln!("frame_cost: the bench scene does not validate");
+            std::process::exit(1);
+        };
         if kind == "pair" {
             let (a, b) = fbs.split_at_mut(1);
             match r.render_pair(&scene, &mut a[0], &mut b[0]) {

@@ -22,5 +22,5 @@ mod web;
 
 pub use analysis::{FrameReport, Panel, Workbench};
 pub use geometry::Mesh;
-pub use pipeline::{Framebuffer, PanelStats, Renderer};
-pub use scene::{Scene, SceneError, ShadingMode};
+pub use pipeline::{Framebuffer, PanelStats, PrepareError, Renderer};
+pub use scene::{Scene, SceneError, ShadingMode, ValidScene};

@@ -12,7 +12,7 @@ use crate::analysis::report::Panel;
 use crate::analysis::sweep::{Sweep, SweepAxis, SweepMetric, SweepSettings};
 use crate::analysis::workbench::Workbench;
 use crate::geometry::subdivide::SubdivisionMethod;
-use crate::scene::definition::Scene;
+use crate::scene::definition::{Scene, ValidScene};
 use crate::scene::settings::MeshSource;
 use wasm_bindgen::prelude::*;
 
@@ -31,7 +31,7 @@ const PANELS: [Panel; 4] = [
 /// The page's renderer: the scene and the workbench that renders and compares its panels.
 #[wasm_bindgen]
 pub struct Viewer {
-    scene: Scene,
+    scene: ValidScene,
     bench: Workbench,
     legend: Comparer,
     /// Name of the mesh file loaded into the workbench, if any.
@@ -59,7 +59,7 @@ impl Viewer {
         #[cfg(debug_assertions)]
         console_error_panic_hook::set_once();
         Viewer {
-            scene: Scene::default(),
+            scene: ValidScene::default(),
             bench: Workbench::new(),
             legend: Comparer::new(),
             mesh_name: None,
@@ -91,7 +91,7 @@ impl Viewer {
     /// kept when it is refused.
     #[wasm_bindgen(js_name = setScene)]
     pub fn set_scene(&mut self, value: JsValue) -> Result<(), JsValue> {
-        let scene: Scene = serde_wasm_bindgen::from_value(value).map_err(js_error)?;
+        let scene: ValidScene = serde_wasm_bindgen::from_value(value).map_err(js_error)?;
         self.bench.prepare(&scene).map_err(js_error)?;
         self.replace_scene(scene);
         Ok(())
@@ -140,9 +140,13 @@ impl Viewer {
         let info = imported.info();
         self.bench.set_file_mesh(imported.mesh);
         self.mesh_name = Some(name.to_string());
-        self.scene.mesh = MeshSource::File {
+        let file = MeshSource::File {
             name: name.to_string(),
         };
+        // The import refused empty names, so the scene stays valid; kept as it was otherwise.
+        if let Ok(next) = self.scene.edit(|s| s.mesh = file) {
+            self.scene = next;
+        }
         self.panels_fresh = false; // a new file may carry an old name
         let ser = serde_wasm_bindgen::Serializer::json_compatible();
         serde::Serialize::serialize(&info, &ser).map_err(js_error)
@@ -165,6 +169,7 @@ impl Viewer {
             .ok_or_else(|| js_error(format!("no preset '{id}'")))?;
         let mut scene = preset.scene;
         scene.panel = self.scene.panel;
+        let scene = scene.validated().map_err(js_error)?;
         self.replace_scene(scene);
         Ok(())
     }
@@ -172,10 +177,13 @@ impl Viewer {
     /// Sets the panel size in device pixels.
     #[wasm_bindgen(js_name = setPanelSize)]
     pub fn set_panel_size(&mut self, width: u32, height: u32) -> Result<(), JsValue> {
-        let mut next = self.scene.clone();
-        next.panel.width = width;
-        next.panel.height = height;
-        next.validate().map_err(js_error)?;
+        let next = self
+            .scene
+            .edit(|s| {
+                s.panel.width = width;
+                s.panel.height = height;
+            })
+            .map_err(js_error)?;
         self.replace_scene(next);
         Ok(())
     }
@@ -213,8 +221,9 @@ impl Viewer {
     /// panel size `width` x `height`.
     #[wasm_bindgen(js_name = loadBenchScene)]
     pub fn load_bench_scene(&mut self, level: u32, width: u32, height: u32) -> Result<(), JsValue> {
-        let scene = Scene::bench(level, width, height, 0);
-        scene.validate().map_err(js_error)?;
+        let scene = Scene::bench(level, width, height, 0)
+            .validated()
+            .map_err(js_error)?;
         self.replace_scene(scene);
         Ok(())
     }
@@ -397,9 +406,11 @@ impl Viewer {
         let Some(sweep) = self.sweep.as_ref() else {
             return Err(js_error("no sweep to jump into"));
         };
-        let mut scene = sweep.scene_at(step);
-        scene.panel = self.scene.panel;
-        scene.validate().map_err(js_error)?;
+        let panel = self.scene.panel;
+        let scene = sweep
+            .scene_at(step)
+            .edit(|s| s.panel = panel)
+            .map_err(js_error)?;
         self.replace_scene(scene);
         Ok(())
     }
@@ -468,9 +479,13 @@ impl Viewer {
         else {
             return Err(js_error("no such level in the advice"));
         };
-        let mut scene = self.scene.clone();
-        scene.mesh = rung.mesh.clone();
-        scene.subdivision = rung.subdivision;
+        let scene = self
+            .scene
+            .edit(|s| {
+                s.mesh = rung.mesh.clone();
+                s.subdivision = rung.subdivision;
+            })
+            .map_err(js_error)?;
         self.bench.prepare(&scene).map_err(js_error)?;
         self.replace_scene(scene);
         Ok(())
@@ -485,7 +500,7 @@ impl Viewer {
 
 impl Viewer {
     /// Makes `scene` current; the panels stay fresh only if it draws the same panels.
-    fn replace_scene(&mut self, scene: Scene) {
+    fn replace_scene(&mut self, scene: ValidScene) {
         self.panels_fresh &= scene.same_panels(&self.scene);
         self.scene = scene;
     }

@@ -18,7 +18,8 @@ fn advise(scene: &Scene, settings: AdviceSettings) -> twinshade::analysis::Advic
     if let MeshSource::File { .. } = scene.mesh {
         bench.set_file_mesh(Shape::Cube.build());
     }
-    let mut advisor = Advisor::new(scene, settings).expect("valid advice");
+    let mut advisor =
+        Advisor::new(&scene.checked().expect("valid scene"), settings).expect("valid advice");
     let mut last = (0, 0);
     advisor
         .run(&mut bench, |d, t| last = (d, t))
@@ -77,7 +78,12 @@ fn the_advised_level_meets_the_threshold_at_every_angle() {
     for step in 0..SETTINGS.steps {
         let deg = 360.0 * step as f32 / SETTINGS.steps as f32;
         check.set_rotation(scene.rotation_quat() * axis_angle(glam::Vec3::Y, deg));
-        let p95 = bench.render(&check).expect("renders").metrics.de00.p95;
+        let p95 = bench
+            .render(&check.checked().expect("valid scene"))
+            .expect("renders")
+            .metrics
+            .de00
+            .p95;
         assert!(p95 < 1.0, "{label} at {deg} degrees: p95 {p95}");
         worst = worst.max(p95);
     }
@@ -111,5 +117,5 @@ fn meshes_without_a_resolution_are_subdivided() {
         steps: 0,
         ..SETTINGS
     };
-    assert!(Advisor::new(&scene, bad).is_err());
+    assert!(Advisor::new(&scene.checked().expect("valid scene"), bad).is_err());
 }

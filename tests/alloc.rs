@@ -31,7 +31,7 @@ static GLOBAL: Counting = Counting;
 
 #[test]
 fn a_frame_allocates_nothing_after_warm_up() {
-    let mut scene = Scene::default();
+    let mut scene = Scene::default().checked().expect("valid scene");
     let mut bench = Workbench::new();
     bench.render(&scene).expect("warm-up frame");
     scene.turn(3.0, 1.0);

@@ -16,7 +16,7 @@ use std::path::PathBuf;
 use std::process::{Child, Command, Stdio};
 use std::sync::mpsc;
 use std::time::{Duration, Instant};
-use twinshade::{Panel, Scene, Workbench};
+use twinshade::{Panel, Scene, ValidScene, Workbench};
 
 mod common;
 
@@ -156,7 +156,7 @@ async fn wait_changed(c: &Client, panel: &str, before: &[u8], what: &str) -> Vec
 }
 
 /// The page's scene rendered natively by the same workbench the page uses.
-async fn native_render(c: &Client) -> (Scene, Workbench) {
+async fn native_render(c: &Client) -> (ValidScene, Workbench) {
     let json = eval(c, "return window.twinshade.sceneJson()").await;
     let scene = Scene::from_json(json.as_str().expect("scene JSON")).expect("page scene is valid");
     let mut bench = Workbench::new();

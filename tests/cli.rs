@@ -45,7 +45,8 @@ fn render_writes_panels_identical_to_the_library_and_a_sheet() {
         let (w, h, bytes) = read_png(&dir.join(file)).expect("readable PNG");
         assert_eq!((w, h), (200, 150), "{file} size");
         let mut fb = Framebuffer::new(0, 0);
-        r.render(&scene, mode, &mut fb).expect("render");
+        r.render(&scene.checked().expect("valid scene"), mode, &mut fb)
+            .expect("render");
         assert!(
             bytes == fb.bytes(),
             "{file} differs from the library's pixels"
@@ -308,7 +309,7 @@ fn sweep_writes_the_library_series_and_plots() {
     scene.panel.width = 160;
     scene.panel.height = 120;
     let mut sweep = twinshade::analysis::Sweep::new(
-        &scene,
+        &scene.checked().expect("valid scene"),
         twinshade::analysis::SweepSettings {
             axis: twinshade::analysis::SweepAxis::Roll,
             steps: 8,
@@ -400,7 +401,7 @@ fn advise_writes_the_library_advice_and_a_plot() {
     scene.panel.width = 160;
     scene.panel.height = 120;
     let mut advisor = twinshade::analysis::Advisor::new(
-        &scene,
+        &scene.checked().expect("valid scene"),
         twinshade::analysis::AdviceSettings {
             threshold: 1.5,
             steps: 6,

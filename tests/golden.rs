@@ -3,6 +3,7 @@
 
 use std::path::PathBuf;
 use twinshade::geometry::Projection;
+use twinshade::shading::Rgb;
 mod common;
 use common::{read_png, write_png};
 use twinshade::geometry::Shape;
@@ -28,7 +29,7 @@ fn scenes() -> Vec<(&'static str, Scene)> {
     torus.camera.pitch_deg = 35.0;
     torus.model = ReflectionModel::Phong;
     torus.material.finish = Finish::Metal;
-    torus.material.base_color = "#c08a3e".into();
+    torus.material.base_color = Rgb::hex("#c08a3e");
     let mut cube = default.clone();
     cube.mesh = MeshSource::Shape(Shape::Cube);
     cube.camera.roll_deg = 30.0;
@@ -65,7 +66,8 @@ fn pixels_match_the_golden_images() {
             ShadingMode::Exact,
         ] {
             let mut fb = Framebuffer::new(0, 0);
-            r.render(&scene, mode, &mut fb).expect("render");
+            r.render(&scene.checked().expect("valid scene"), mode, &mut fb)
+                .expect("render");
             let path = dir.join(format!("{name}-{}.png", format!("{mode:?}").to_lowercase()));
             if bless {
                 std::fs::create_dir_all(&dir).expect("image folder");
@@ -109,14 +111,24 @@ fn one_pass_pair_equals_separate_panels() {
         for turn in 0..3 {
             scene.turn(23.0 * turn as f32, 7.0 * turn as f32);
             let (mut g, mut p) = (Framebuffer::new(0, 0), Framebuffer::new(0, 0));
-            let stats = r.render_pair(&scene, &mut g, &mut p).expect("pair");
+            let stats = r
+                .render_pair(&scene.checked().expect("valid scene"), &mut g, &mut p)
+                .expect("pair");
             let mut g1 = Framebuffer::new(0, 0);
             let mut p1 = Framebuffer::new(0, 0);
             let sg = r
-                .render(&scene, ShadingMode::Gouraud, &mut g1)
+                .render(
+                    &scene.checked().expect("valid scene"),
+                    ShadingMode::Gouraud,
+                    &mut g1,
+                )
                 .expect("gouraud");
             let sp = r
-                .render(&scene, ShadingMode::Phong, &mut p1)
+                .render(
+                    &scene.checked().expect("valid scene"),
+                    ShadingMode::Phong,
+                    &mut p1,
+                )
                 .expect("phong");
             assert!(
                 g.bytes() == g1.bytes(),

@@ -279,7 +279,8 @@ fn the_same_shape_in_eight_files_renders_identical_pixels() {
         let mut out = Vec::new();
         for mode in [ShadingMode::Gouraud, ShadingMode::Phong] {
             let mut fb = Framebuffer::new(0, 0);
-            r.render(&scene, mode, &mut fb).expect("renders");
+            r.render(&scene.checked().expect("valid scene"), mode, &mut fb)
+                .expect("renders");
             out.push(fb.bytes().to_vec());
         }
         images.push((name, out));
@@ -475,7 +476,9 @@ fn rasterizer_survives_arbitrary_geometry() {
             ShadingMode::Exact,
         ] {
             let mut fb = Framebuffer::new(0, 0);
-            if r.render(&scene, mode, &mut fb).is_ok() {
+            if r.render(&scene.checked().expect("valid scene"), mode, &mut fb)
+                .is_ok()
+            {
                 renders += 1;
             }
         }

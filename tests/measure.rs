@@ -6,6 +6,7 @@ use twinshade::analysis::{ciede2000, delta_e76, srgb8_to_lab, Comparer, Lab};
 use twinshade::geometry::Shape;
 use twinshade::scene::DifferenceSettings;
 use twinshade::scene::MeshSource;
+use twinshade::shading::Rgb;
 use twinshade::{Scene, Workbench};
 
 fn lab(l: f64, a: f64, b: f64) -> Lab {
@@ -247,7 +248,12 @@ fn glossy_sphere_p95_falls_with_subdivision() {
             mesh: MeshSource::Shape(Shape::Icosphere { level }),
             ..Scene::default()
         };
-        let p95 = bench.render(&scene).expect("render").metrics.de00.p95;
+        let p95 = bench
+            .render(&scene.checked().expect("valid scene"))
+            .expect("render")
+            .metrics
+            .de00
+            .p95;
         report += &format!("L{level}: p95 {p95:.3}\n");
         assert!(p95 < last, "p95 must fall with the level:\n{report}");
         if level == 0 {
@@ -266,7 +272,8 @@ fn comparing_again_equals_a_full_render() {
     scene.panel.width = 120;
     scene.panel.height = 90;
     let mut a = twinshade::Workbench::new();
-    a.render_panels(&scene).expect("panels");
+    a.render_panels(&scene.checked().expect("valid scene"))
+        .expect("panels");
     let mut edited = scene.clone();
     edited.difference.threshold = 2.5;
     edited.difference.pair = [
@@ -274,9 +281,13 @@ fn comparing_again_equals_a_full_render() {
         twinshade::ShadingMode::Exact,
     ];
     assert!(edited.same_panels(&scene));
-    let quick = *a.compare_only(&edited).expect("compare");
+    let quick = *a
+        .compare_only(&edited.checked().expect("valid scene"))
+        .expect("compare");
     let mut b = twinshade::Workbench::new();
-    let full = *b.render(&edited).expect("render");
+    let full = *b
+        .render(&edited.checked().expect("valid scene"))
+        .expect("render");
     assert_eq!(quick, full);
     assert_eq!(
         a.framebuffer(twinshade::Panel::Difference).bytes(),
@@ -286,6 +297,6 @@ fn comparing_again_equals_a_full_render() {
     turned.turn(1.0, 0.0);
     assert!(!turned.same_panels(&scene));
     let mut recoloured = scene.clone();
-    recoloured.material.base_color = "#123456".into();
+    recoloured.material.base_color = Rgb::hex("#123456");
     assert!(!recoloured.same_panels(&scene));
 }

@@ -99,7 +99,9 @@ fn a_two_million_triangle_mesh_fits_the_memory_budget() {
     };
     let mut bench = Workbench::new();
     bench.set_file_mesh(imported.mesh);
-    let report = *bench.render(&scene).expect("renders");
+    let report = *bench
+        .render(&scene.checked().expect("valid scene"))
+        .expect("renders");
     assert_eq!(report.triangles, 2_000_000);
     assert!(report.metrics.covered_pixels > 10_000);
     let peak = PEAK.load(Ordering::Relaxed) - base;

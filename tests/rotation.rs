@@ -205,7 +205,7 @@ fn quad_grid_scene(mode: PolygonMode) -> Scene {
 fn run(scene: &Scene, axis: SweepAxis, steps: u32) -> twinshade::analysis::SweepSummary {
     let mut bench = Workbench::new();
     let mut sweep = Sweep::new(
-        scene,
+        &scene.checked().expect("valid scene"),
         SweepSettings {
             axis,
             steps,
@@ -267,7 +267,9 @@ fn polygon_modes_cover_the_same_pixels_on_a_flat_grid() {
     for mode in PolygonMode::ALL {
         let mut bench = Workbench::new();
         let scene = quad_grid_scene(mode);
-        bench.render(&scene).expect("renders");
+        bench
+            .render(&scene.checked().expect("valid scene"))
+            .expect("renders");
         let fb = bench.framebuffer(twinshade::Panel::Gouraud);
         covered.push((0..256 * 256).filter(|&i| fb.covered(i)).count());
         let want = if mode == PolygonMode::CentreFan {

@@ -6,6 +6,7 @@ use twinshade::geometry::Projection;
 use twinshade::geometry::Shape;
 use twinshade::scene::{MeshSource, PanelSize};
 use twinshade::shading::encode_srgb8;
+use twinshade::shading::Rgb;
 use twinshade::shading::{Light, LightKind, Material};
 use twinshade::{Framebuffer, Renderer, Scene, ShadingMode};
 
@@ -26,25 +27,25 @@ fn lambert_scene(level: u32) -> Scene {
         kind: LightKind::Directional,
         azimuth_deg: 0.0,
         elevation_deg: 0.0,
-        color: "#ffffff".into(),
+        color: Rgb::hex("#ffffff"),
         intensity: 1.0,
         ..Light::default()
     }];
     s.material = Material {
-        base_color: "#ffffff".into(),
+        base_color: Rgb::hex("#ffffff"),
         ambient: 0.0,
         diffuse: 1.0,
         specular: 0.0,
         ..Material::default()
     };
-    s.background = "#000000".into();
+    s.background = Rgb::hex("#000000");
     s
 }
 
 fn render(scene: &Scene, mode: ShadingMode) -> Framebuffer {
     let mut fb = Framebuffer::new(0, 0);
     Renderer::new()
-        .render(scene, mode, &mut fb)
+        .render(&scene.checked().expect("valid scene"), mode, &mut fb)
         .expect("render");
     fb
 }
@@ -119,7 +120,7 @@ fn highlight_inside_a_coarse_triangle_shows_only_per_pixel() {
     s.material.specular = 1.0;
     s.material.shininess = 200.0;
     s.material.diffuse = 0.3;
-    s.material.base_color = "#3060a0".into();
+    s.material.base_color = Rgb::hex("#3060a0");
     let mesh = Shape::Icosphere { level: 1 }.build();
     let f = mesh.face(7);
     let centroid: Vec3 = f
@@ -183,7 +184,8 @@ fn geometry_crossing_the_eye_plane_is_clipped() {
     r.set_file_mesh(mesh);
     for mode in [ShadingMode::Gouraud, ShadingMode::Phong, ShadingMode::Flat] {
         let mut fb = Framebuffer::new(0, 0);
-        r.render(&s, mode, &mut fb).expect("render");
+        r.render(&s.checked().expect("valid scene"), mode, &mut fb)
+            .expect("render");
         let bg = fb.rgba(0, 0);
         let drawn: Vec<(usize, usize)> = (0..160 * 120)
             .map(|i| (i % 160, i / 160))

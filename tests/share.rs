@@ -5,6 +5,7 @@ use twinshade::geometry::Shape;
 use twinshade::scene::presets;
 use twinshade::scene::{decode, encode};
 use twinshade::scene::{MeshSource, PanelSize};
+use twinshade::shading::Rgb;
 use twinshade::shading::{Finish, LightKind, ReflectionModel};
 use twinshade::{Scene, Workbench};
 
@@ -60,7 +61,8 @@ fn random_scene(r: &mut Rng) -> Scene {
     s.model = r.pick(&[ReflectionModel::Phong, ReflectionModel::BlinnPhong]);
     s.material.shininess = 1.0 + r.unit() * 500.0;
     s.material.finish = r.pick(&[Finish::Dielectric, Finish::Metal]);
-    s.material.base_color = format!("#{:06x}", r.next() & 0xff_ffff);
+    let c = r.next();
+    s.material.base_color = Rgb([(c >> 16) as u8, (c >> 8) as u8, c as u8]);
     s.lights[0].kind = r.pick(&[LightKind::Directional, LightKind::Point]);
     s.lights[0].azimuth_deg = r.unit() * 360.0 - 180.0;
     s.lights.truncate(1 + (r.next() % 2) as usize);
@@ -172,7 +174,9 @@ fn every_preset_is_valid_and_shows_a_difference() {
             panel: PANEL,
             ..p.scene.clone()
         };
-        let report = bench.render(&scene).expect("preset renders");
+        let report = bench
+            .render(&scene.checked().expect("valid scene"))
+            .expect("preset renders");
         let m = report.metrics;
         assert!(
             m.covered_pixels > 5_000,

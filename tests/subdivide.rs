@@ -145,13 +145,17 @@ fn scenes_render_subdivided_meshes_and_refuse_too_many_levels() {
         levels: 2,
     };
     let mut bench = Workbench::new();
-    let report = *bench.render(&scene).expect("renders");
+    let report = *bench
+        .render(&scene.checked().expect("valid scene"))
+        .expect("renders");
     assert_eq!(report.triangles, 80 * 16);
     // Past the triangle limit: refused before drawing, with the counts in the message.
     scene.mesh = MeshSource::Shape(Shape::Icosphere { level: 6 });
     scene.subdivision.levels = 4;
-    let err = bench.prepare(&scene).expect_err("too many triangles");
-    assert!(err.0.contains("2000000"), "{err}");
+    let err = bench
+        .prepare(&scene.checked().expect("valid scene"))
+        .expect_err("too many triangles");
+    assert!(err.to_string().contains("2000000"), "{err}");
     scene.subdivision.levels = 9;
     assert!(scene.validate().is_err());
 }

@@ -13,13 +13,14 @@
 //! one rung after the first pass (to show the curve flattening), at the triangle limit, or at
 //! the end of the ladder.
 
+use crate::analysis::error::AnalysisError;
 use crate::analysis::sweep::{Sweep, SweepAxis, SweepSettings};
 use crate::analysis::workbench::Workbench;
 use crate::draw::plot::{Plot, Rule, Series, PANEL_COLORS};
 use crate::geometry::mesh::MAX_TRIANGLES;
 use crate::geometry::shapes::Shape;
 use crate::geometry::subdivide::{Subdivision, SubdivisionMethod, MAX_LEVELS};
-use crate::scene::definition::{Scene, SceneError};
+use crate::scene::definition::{Scene, ValidScene};
 use crate::scene::settings::DifferenceSettings;
 use crate::scene::settings::MeshSource;
 use crate::scene::settings::ShadingMode;
@@ -112,17 +113,26 @@ impl Default for Rung {
 
 /// A rung before it is measured: the scene to sweep and its label.
 struct Candidate {
-    scene: Scene,
+    scene: ValidScene,
     label: String,
 }
 
 /// The ladder of finer versions of `scene`'s mesh.
-fn ladder(scene: &Scene, method: SubdivisionMethod) -> Vec<Candidate> {
+fn ladder(scene: &ValidScene, method: SubdivisionMethod) -> Vec<Candidate> {
+    rungs(scene, method).into_iter().flatten().collect()
+}
+
+fn rungs(scene: &ValidScene, method: SubdivisionMethod) -> Vec<Option<Candidate>> {
+    // Every rung stays within the ranges a scene allows (resolutions clamped below, levels up
+    // to MAX_LEVELS), so `edit` refuses none; one that it did refuse would be left out.
     let with = |mesh: MeshSource, sub: Subdivision, label: String| {
-        let mut s = scene.clone();
-        s.mesh = mesh;
-        s.subdivision = sub;
-        Candidate { scene: s, label }
+        scene
+            .edit(|s| {
+                s.mesh = mesh;
+                s.subdivision = sub;
+            })
+            .ok()
+            .map(|scene| Candidate { scene, label })
     };
     let shape = |s: Shape, label: String| with(MeshSource::Shape(s), Subdivision::default(), label);
     // Steps of about 1.5x in resolution (about 2.25x in vertices).
@@ -204,7 +214,7 @@ fn ladder(scene: &Scene, method: SubdivisionMethod) -> Vec<Candidate> {
 /// An advice in progress.
 pub struct Advisor {
     settings: AdviceSettings,
-    base: Scene,
+    base: ValidScene,
     candidates: Vec<Candidate>,
     next: usize,
     sweep: Option<Sweep>,
@@ -219,23 +229,26 @@ impl Advisor {
     ///
     /// # Errors
     /// When the scene or the settings are invalid.
-    pub fn new(scene: &Scene, settings: AdviceSettings) -> Result<Advisor, SceneError> {
-        scene.validate()?;
+    pub fn new(scene: &ValidScene, settings: AdviceSettings) -> Result<Advisor, AnalysisError> {
         if !(settings.threshold > 0.0 && settings.threshold <= 100.0) {
-            return Err(SceneError(format!(
+            return Err(AnalysisError::Settings(format!(
                 "the threshold must be more than 0 and at most 100 dE00, not {}",
                 settings.threshold
             )));
         }
         if !(1..=360).contains(&settings.steps) {
-            return Err(SceneError(format!(
+            return Err(AnalysisError::Settings(format!(
                 "advice sweeps 1 to 360 angles per level, not {}",
                 settings.steps
             )));
         }
-        let mut base = scene.clone();
-        base.difference.pair = [ShadingMode::Gouraud, ShadingMode::Phong];
-        base.difference.threshold = settings.threshold;
+        // The threshold was checked above to lie in the range a scene allows.
+        let base = scene
+            .edit(|s| {
+                s.difference.pair = [ShadingMode::Gouraud, ShadingMode::Phong];
+                s.difference.threshold = settings.threshold;
+            })
+            .map_err(|e| AnalysisError::Settings(e.to_string()))?;
         let candidates = ladder(&base, settings.method);
         Ok(Advisor {
             settings,
@@ -279,7 +292,7 @@ impl Advisor {
     }
 
     /// The scene of rung `i` in the orientation of the scene as given, or `None`.
-    pub fn rung_scene(&self, i: usize) -> Option<Scene> {
+    pub fn rung_scene(&self, i: usize) -> Option<ValidScene> {
         self.candidates.get(i).map(|c| c.scene.clone())
     }
 
@@ -287,7 +300,7 @@ impl Advisor {
     ///
     /// # Errors
     /// When the scene cannot be rendered (e.g. a mesh file that was not supplied).
-    pub fn run_step(&mut self, bench: &mut Workbench) -> Result<bool, SceneError> {
+    pub fn run_step(&mut self, bench: &mut Workbench) -> Result<bool, AnalysisError> {
         if self.done {
             return Ok(false);
         }
@@ -374,7 +387,7 @@ impl Advisor {
         &mut self,
         bench: &mut Workbench,
         mut progress: impl FnMut(u32, u32),
-    ) -> Result<(), SceneError> {
+    ) -> Result<(), AnalysisError> {
         while self.run_step(bench)? {
             progress(self.frames_done(), self.total_frames());
         }

@@ -3,6 +3,7 @@
 //! the tessellation advisor, and the report sheets.
 
 pub(crate) mod advisor;
+pub(crate) mod error;
 pub(crate) mod measure;
 pub(crate) mod report;
 pub(crate) mod sheet;
@@ -10,6 +11,7 @@ pub(crate) mod sweep;
 pub(crate) mod workbench;
 
 pub use advisor::{Advice, AdviceSettings, Advisor, Rung};
+pub use error::AnalysisError;
 pub use measure::{
     ciede2000, delta_e76, luminance, pixel_difference, srgb8_to_lab, srgb_to_xyz_matrix, Comparer,
     DiffMetrics, Lab, PixelDifference, Summary, SILHOUETTE_RGB, WHITE,

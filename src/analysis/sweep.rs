@@ -11,13 +11,14 @@
 //! command line runs them all. Each step is one workbench frame (both panels and their
 //! comparison) plus the panel peaks and, for roll, the probes.
 
+use crate::analysis::error::AnalysisError;
 use crate::analysis::measure::luminance;
 use crate::analysis::report::Panel;
 use crate::analysis::workbench::Workbench;
 use crate::draw::plot::{Plot, Rule, Series, PANEL_COLORS};
 use crate::pipeline::framebuffer::Framebuffer;
 use crate::pipeline::surface::SurfacePoint;
-use crate::scene::definition::{axis_angle, Scene, SceneError};
+use crate::scene::definition::{axis_angle, ValidScene};
 use crate::scene::settings::ShadingMode;
 use serde::{Deserialize, Serialize};
 
@@ -128,8 +129,8 @@ pub struct SweepSummary {
 /// A sweep in progress: the base scene, the steps measured so far and the probes followed.
 pub struct Sweep {
     settings: SweepSettings,
-    base: Scene,
-    scene: Scene,
+    base: ValidScene,
+    scene: ValidScene,
     records: Vec<SweepStep>,
     points: Vec<SurfacePoint>,
     first: Vec<[f32; 2]>,
@@ -142,17 +143,16 @@ impl Sweep {
     /// Prepares a sweep of `scene` (its orientation is angle 0).
     ///
     /// # Errors
-    /// When the settings or the scene are invalid.
-    pub fn new(scene: &Scene, settings: SweepSettings) -> Result<Sweep, SceneError> {
-        scene.validate()?;
+    /// When the settings are out of range.
+    pub fn new(scene: &ValidScene, settings: SweepSettings) -> Result<Sweep, AnalysisError> {
         if !(1..=MAX_STEPS).contains(&settings.steps) {
-            return Err(SceneError(format!(
+            return Err(AnalysisError::Settings(format!(
                 "a sweep has 1 to {MAX_STEPS} steps, not {}",
                 settings.steps
             )));
         }
         if !(settings.degrees > 0.0 && settings.degrees <= 360.0) {
-            return Err(SceneError(format!(
+            return Err(AnalysisError::Settings(format!(
                 "a sweep covers more than 0 and at most 360 degrees, not {}",
                 settings.degrees
             )));
@@ -181,7 +181,7 @@ impl Sweep {
     }
 
     /// Writes the scene of step `i` into `scene` (a copy of the base scene turned or rolled).
-    fn pose(base: &Scene, settings: SweepSettings, i: u32, scene: &mut Scene) {
+    fn pose(base: &ValidScene, settings: SweepSettings, i: u32, scene: &mut ValidScene) {
         let angle = settings.degrees * i as f32 / settings.steps as f32;
         match settings.axis {
             SweepAxis::Turntable => {
@@ -190,14 +190,14 @@ impl Sweep {
             SweepAxis::Roll => {
                 let r = base.camera.roll_deg + angle;
                 // Kept in -180..=180 so the page's roll control can show it.
-                scene.camera.roll_deg = if r > 180.0 { r - 360.0 } else { r };
+                scene.set_roll(if r > 180.0 { r - 360.0 } else { r });
             }
         }
     }
 
     /// The scene at step `i` (clamped to the last step): what the page shows when a point of
     /// the plot is picked.
-    pub fn scene_at(&self, i: u32) -> Scene {
+    pub fn scene_at(&self, i: u32) -> ValidScene {
         let mut s = self.base.clone();
         Self::pose(
             &self.base,
@@ -222,7 +222,7 @@ impl Sweep {
     ///
     /// # Errors
     /// When the scene cannot be rendered (e.g. a mesh file that was not supplied).
-    pub fn run_step(&mut self, bench: &mut Workbench) -> Result<Option<&SweepStep>, SceneError> {
+    pub fn run_step(&mut self, bench: &mut Workbench) -> Result<Option<&SweepStep>, AnalysisError> {
         if self.is_done() {
             return Ok(None);
         }
@@ -283,7 +283,7 @@ impl Sweep {
         &mut self,
         bench: &mut Workbench,
         mut progress: impl FnMut(u32, u32),
-    ) -> Result<(), SceneError> {
+    ) -> Result<(), AnalysisError> {
         while self.run_step(bench)?.is_some() {
             progress(self.records.len() as u32, self.settings.steps);
         }

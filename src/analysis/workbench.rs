@@ -11,10 +11,9 @@ use crate::analysis::measure::{pixel_difference, Comparer, PixelDifference};
 use crate::analysis::report::{FrameReport, LightingCost, Panel};
 use crate::geometry::mesh::Mesh;
 use crate::pipeline::framebuffer::Framebuffer;
-use crate::pipeline::render::{PanelStats, Renderer};
-use crate::scene::definition::{Scene, SceneError};
+use crate::pipeline::render::{PanelStats, PrepareError, Renderer};
+use crate::scene::definition::ValidScene;
 use crate::scene::settings::ShadingMode;
-use crate::shading::color::parse_hex;
 
 /// Panels and the comparer for one scene at a time.
 #[derive(Default)]
@@ -46,16 +45,15 @@ impl Workbench {
     ///
     /// # Errors
     /// As [`Workbench::render`].
-    pub fn prepare(&mut self, scene: &Scene) -> Result<(), SceneError> {
-        scene.validate()?;
-        self.renderer.prepare_geometry(scene)
+    pub fn prepare(&mut self, scene: &ValidScene) -> Result<(), PrepareError> {
+        self.renderer.prepare(scene)
     }
 
     /// Renders every panel the scene needs and compares the selected pair.
     ///
     /// # Errors
     /// When the scene is invalid or names a mesh file that was not supplied.
-    pub fn render(&mut self, scene: &Scene) -> Result<&FrameReport, SceneError> {
+    pub fn render(&mut self, scene: &ValidScene) -> Result<&FrameReport, PrepareError> {
         self.render_panels(scene)?;
         self.compare_only(scene)
     }
@@ -67,7 +65,7 @@ impl Workbench {
     ///
     /// # Errors
     /// As [`Workbench::render`].
-    pub fn compare_only(&mut self, scene: &Scene) -> Result<&FrameReport, SceneError> {
+    pub fn compare_only(&mut self, scene: &ValidScene) -> Result<&FrameReport, PrepareError> {
         let pair = scene.difference.pair;
         self.stats[2] = if pair.contains(&ShadingMode::Exact) {
             self.renderer
@@ -77,7 +75,7 @@ impl Workbench {
         };
         let (w, h) = (self.gouraud.width(), self.gouraud.height());
         self.difference.resize(w, h);
-        let bg = parse_hex(&scene.background).map_err(SceneError)?;
+        let bg = scene.background.0;
         let Workbench {
             gouraud,
             phong,
@@ -86,17 +84,13 @@ impl Workbench {
             comparer,
             ..
         } = self;
+        // A valid scene never pairs the flat mode (Scene::validate refuses it).
         let pick = |mode: ShadingMode| match mode {
-            ShadingMode::Gouraud => Some(&*gouraud),
-            ShadingMode::Phong => Some(&*phong),
-            ShadingMode::Exact => Some(&*exact),
-            ShadingMode::Flat => None,
+            ShadingMode::Gouraud | ShadingMode::Flat => &*gouraud,
+            ShadingMode::Phong => &*phong,
+            ShadingMode::Exact => &*exact,
         };
-        let (Some(fa), Some(fb)) = (pick(pair[0]), pick(pair[1])) else {
-            return Err(SceneError(
-                "the difference view compares two of gouraud, phong and exact".into(),
-            ));
-        };
+        let (fa, fb) = (pick(pair[0]), pick(pair[1]));
         let cover_a = |i: usize| fa.covered(i);
         let cover_b = |i: usize| fb.covered(i);
         let metrics = comparer.compare(
@@ -128,7 +122,7 @@ impl Workbench {
     ///
     /// # Errors
     /// As [`Workbench::render`].
-    pub fn render_panels(&mut self, scene: &Scene) -> Result<[PanelStats; 2], SceneError> {
+    pub fn render_panels(&mut self, scene: &ValidScene) -> Result<[PanelStats; 2], PrepareError> {
         let [g, p] = self
             .renderer
             .render_pair(scene, &mut self.gouraud, &mut self.phong)?;
@@ -143,9 +137,9 @@ impl Workbench {
     /// As [`Workbench::render`].
     pub fn surface_points(
         &mut self,
-        scene: &Scene,
+        scene: &ValidScene,
         max: usize,
-    ) -> Result<Vec<crate::pipeline::surface::SurfacePoint>, SceneError> {
+    ) -> Result<Vec<crate::pipeline::surface::SurfacePoint>, PrepareError> {
         self.renderer.surface_points(scene, max)
     }
 
@@ -156,10 +150,10 @@ impl Workbench {
     /// As [`Workbench::render`].
     pub fn sample_surface(
         &mut self,
-        scene: &Scene,
+        scene: &ValidScene,
         points: &[crate::pipeline::surface::SurfacePoint],
         out: &mut Vec<[f32; 2]>,
-    ) -> Result<(), SceneError> {
+    ) -> Result<(), PrepareError> {
         self.renderer
             .sample_surface(scene, self.phong.depth(), points, out)
     }

@@ -17,7 +17,7 @@ use std::path::{Path, PathBuf};
 use twinshade::analysis::{Comparer, DiffMetrics};
 use twinshade::analysis::{Panel, Workbench};
 use twinshade::scene::DifferenceSettings;
-use twinshade::scene::Scene;
+use twinshade::scene::{Scene, ValidScene};
 
 #[derive(Parser)]
 #[command(
@@ -158,7 +158,9 @@ struct SceneArgs {
 impl SceneArgs {
     /// The scene with `--size` and `--mesh` applied, a workbench holding the mesh, and the
     /// mesh file's counts.
-    fn load(self) -> Result<(Scene, Workbench, Option<twinshade::geometry::MeshInfo>), String> {
+    fn load(
+        self,
+    ) -> Result<(ValidScene, Workbench, Option<twinshade::geometry::MeshInfo>), String> {
         prepare(
             pick_scene(self.scene, self.preset)?,
             self.mesh.as_deref(),
@@ -349,7 +351,7 @@ fn prepare(
     mut scene: Scene,
     mesh: Option<&Path>,
     size: Option<(u32, u32)>,
-) -> Result<(Scene, Workbench, Option<twinshade::geometry::MeshInfo>), String> {
+) -> Result<(ValidScene, Workbench, Option<twinshade::geometry::MeshInfo>), String> {
     if let Some((w, h)) = size {
         scene.panel.width = w;
         scene.panel.height = h;
@@ -365,6 +367,7 @@ fn prepare(
         };
         bench.set_file_mesh(imported.mesh);
     }
+    let scene = scene.validated().map_err(|e| e.to_string())?;
     Ok((scene, bench, info))
 }
 
@@ -445,7 +448,7 @@ fn write_plot(path: &Path, plot: &twinshade::draw::Plot) -> Result<(), String> {
 
 #[allow(clippy::too_many_arguments)] // one per command-line option
 fn sweep(
-    scene: &Scene,
+    scene: &ValidScene,
     mut bench: Workbench,
     settings: twinshade::analysis::SweepSettings,
     out: &Path,
@@ -502,7 +505,7 @@ fn sweep(
 }
 
 fn advise(
-    scene: &Scene,
+    scene: &ValidScene,
     mut bench: Workbench,
     settings: twinshade::analysis::AdviceSettings,
     out: &Path,
@@ -563,7 +566,9 @@ fn advise(
 fn load_scene(path: &Path) -> Result<Scene, String> {
     let text = std::fs::read_to_string(path)
         .map_err(|e| format!("cannot read scene {}: {e}", path.display()))?;
-    Scene::from_json(&text).map_err(|e| format!("{}: {e}", path.display()))
+    Scene::from_json(&text)
+        .map(ValidScene::into_scene)
+        .map_err(|e| format!("{}: {e}", path.display()))
 }
 
 /// Reads and imports a mesh file, reporting its counts on stderr.
@@ -599,7 +604,7 @@ struct RenderMetrics<'a> {
 }
 
 fn render(
-    (scene, mut bench, mesh_info): (Scene, Workbench, Option<twinshade::geometry::MeshInfo>),
+    (scene, mut bench, mesh_info): (ValidScene, Workbench, Option<twinshade::geometry::MeshInfo>),
     out_dir: &Path,
     metrics: Option<&Path>,
 ) -> Result<(), String> {

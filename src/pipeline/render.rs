@@ -30,12 +30,41 @@ use crate::pipeline::scanline::fill_polygon;
 use crate::pipeline::shaders::{Both, Constant, ExactSurface, PerPixel, VertexColor};
 use crate::pipeline::surface::{surface_points, Probe, SurfacePoint};
 use crate::pipeline::vertex_stage::{project, StageKey, VertexStage};
-use crate::scene::definition::{Scene, SceneError};
+use crate::scene::definition::{Scene, ValidScene};
 use crate::scene::settings::{MeshSource, NormalSettings, NormalSource, ShadingMode};
-use crate::shading::color::{parse_hex, SrgbEncoder};
+use crate::shading::color::SrgbEncoder;
 use crate::shading::lighting::Lighting;
 use glam::{Mat3, Quat, Vec3, Vec4};
 use serde::Serialize;
+
+/// Why a scene's mesh could not be prepared for drawing. (The scene itself is valid by type;
+/// these depend on the mesh it is combined with.)
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum PrepareError {
+    /// The scene names a mesh file that was not supplied (see [`Renderer::set_file_mesh`]).
+    MeshNotLoaded {
+        /// The file name the scene names.
+        name: String,
+    },
+    /// Subdivision would exceed the triangle limit (the message gives the counts).
+    Subdivision(String),
+    /// Geometry preparation was skipped (a bug: every drawing call prepares first).
+    NotPrepared,
+}
+
+impl std::fmt::Display for PrepareError {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self {
+            PrepareError::MeshNotLoaded { name } => {
+                write!(f, "the mesh file '{name}' has not been loaded")
+            }
+            PrepareError::Subdivision(m) => f.write_str(m),
+            PrepareError::NotPrepared => f.write_str("no mesh prepared"),
+        }
+    }
+}
+
+impl std::error::Error for PrepareError {}
 
 /// What one panel's frame cost.
 #[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Serialize)]
@@ -83,7 +112,17 @@ impl Renderer {
         self.geometry = None;
     }
 
-    pub(crate) fn prepare_geometry(&mut self, scene: &Scene) -> Result<(), SceneError> {
+    /// Prepares the mesh of `scene` for drawing (normals, subdivision, polygon split); reused
+    /// while those settings stay the same.
+    ///
+    /// # Errors
+    /// When the scene names a mesh file that was not supplied, or subdivision would exceed
+    /// the triangle limit.
+    pub fn prepare(&mut self, scene: &ValidScene) -> Result<(), PrepareError> {
+        self.prepare_geometry(scene)
+    }
+
+    fn prepare_geometry(&mut self, scene: &Scene) -> Result<(), PrepareError> {
         if let Some(g) = &self.geometry {
             if g.source == scene.mesh
                 && g.normals == scene.normals
@@ -94,17 +133,10 @@ impl Renderer {
             }
         }
         let (mesh, shape) = match &scene.mesh {
-            MeshSource::Shape(shape) => {
-                shape.validate().map_err(SceneError)?;
-                (shape.build(), Some(*shape))
-            }
+            MeshSource::Shape(shape) => (shape.build(), Some(*shape)),
             MeshSource::File { name } => match &self.imported {
                 Some(m) => (m.clone(), None),
-                None => {
-                    return Err(SceneError(format!(
-                        "the mesh file '{name}' has not been loaded"
-                    )))
-                }
+                None => return Err(PrepareError::MeshNotLoaded { name: name.clone() }),
             },
         };
         let mesh = if scene.normals.source == NormalSource::Computed || !mesh.has_normals() {
@@ -115,7 +147,7 @@ impl Renderer {
         let sub = scene.subdivision;
         let mesh = if sub.levels > 0 {
             crate::geometry::subdivide::subdivide(&mesh, sub.method, sub.levels)
-                .map_err(SceneError)?
+                .map_err(PrepareError::Subdivision)?
         } else {
             mesh
         };
@@ -135,11 +167,14 @@ impl Renderer {
 
     /// Validates the scene, prepares geometry and the per-frame vertex work, and sizes and
     /// clears the framebuffers.
-    fn begin(&mut self, scene: &Scene, fbs: &mut [&mut Framebuffer]) -> Result<Frame, SceneError> {
-        scene.validate()?;
+    fn begin(
+        &mut self,
+        scene: &ValidScene,
+        fbs: &mut [&mut Framebuffer],
+    ) -> Result<Frame, PrepareError> {
         self.prepare_geometry(scene)?;
         let (width, height) = (scene.panel.width as usize, scene.panel.height as usize);
-        let bg = parse_hex(&scene.background).map_err(SceneError)?;
+        let bg = scene.background.0;
         for fb in fbs.iter_mut() {
             if fb.width() != width || fb.height() != height {
                 fb.resize(width, height);
@@ -164,12 +199,11 @@ impl Renderer {
         }
         let lighting = Lighting::new(
             &scene.lights,
-            &scene.ambient_light,
+            scene.ambient_light,
             &scene.material,
             scene.model,
             &camera,
-        )
-        .map_err(SceneError)?;
+        );
         Ok(Frame {
             camera,
             rotation,
@@ -206,14 +240,14 @@ impl Renderer {
     /// As [`Renderer::render`].
     pub fn render_pair(
         &mut self,
-        scene: &Scene,
+        scene: &ValidScene,
         gouraud: &mut Framebuffer,
         phong: &mut Framebuffer,
-    ) -> Result<[PanelStats; 2], SceneError> {
+    ) -> Result<[PanelStats; 2], PrepareError> {
         let f = self.begin(scene, &mut [&mut *gouraud, &mut *phong])?;
         self.light_vertices(&f.lighting);
         let Some(geo) = self.geometry.as_ref() else {
-            return Err(SceneError("no mesh prepared".into()));
+            return Err(PrepareError::NotPrepared);
         };
         let ctx = DrawContext {
             vb: &geo.vb,
@@ -272,13 +306,13 @@ impl Renderer {
     /// Renders `scene` with `mode` into `fb`, resizing it to the scene's panel size.
     ///
     /// # Errors
-    /// When the scene is invalid or names a mesh file that was not supplied.
+    /// As [`Renderer::prepare`]: rendering itself cannot fail on a valid scene.
     pub fn render(
         &mut self,
-        scene: &Scene,
+        scene: &ValidScene,
         mode: ShadingMode,
         fb: &mut Framebuffer,
-    ) -> Result<PanelStats, SceneError> {
+    ) -> Result<PanelStats, PrepareError> {
         let f = self.begin(scene, &mut [&mut *fb])?;
         if mode == ShadingMode::Gouraud {
             self.light_vertices(&f.lighting);
@@ -293,7 +327,7 @@ impl Renderer {
             persp,
         } = f;
         let Some(geo) = self.geometry.as_ref() else {
-            return Err(SceneError("no mesh prepared".into()));
+            return Err(PrepareError::NotPrepared);
         };
         let enc = SrgbEncoder::new();
         let mut stats = PanelStats {
@@ -410,9 +444,9 @@ impl Renderer {
     /// As [`Renderer::render`].
     pub fn surface_points(
         &mut self,
-        scene: &Scene,
+        scene: &ValidScene,
         max: usize,
-    ) -> Result<Vec<SurfacePoint>, SceneError> {
+    ) -> Result<Vec<SurfacePoint>, PrepareError> {
         self.prepare_geometry(scene)?;
         Ok(self
             .geometry
@@ -431,14 +465,14 @@ impl Renderer {
     /// As [`Renderer::render`].
     pub fn sample_surface(
         &mut self,
-        scene: &Scene,
+        scene: &ValidScene,
         depth: &[f32],
         points: &[SurfacePoint],
         out: &mut Vec<[f32; 2]>,
-    ) -> Result<(), SceneError> {
+    ) -> Result<(), PrepareError> {
         let f = self.begin(scene, &mut [])?;
         let Some(geo) = self.geometry.as_ref() else {
-            return Err(SceneError("no mesh prepared".into()));
+            return Err(PrepareError::NotPrepared);
         };
         let probe = Probe {
             stage: &self.stage,

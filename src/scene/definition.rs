@@ -7,11 +7,12 @@
 
 use crate::geometry::camera::Camera;
 use crate::geometry::shapes::Shape;
+use crate::geometry::subdivide::{Subdivision, MAX_LEVELS};
 use crate::geometry::vertex_buffer::PolygonMode;
 use crate::scene::settings::{
     DifferenceSettings, MeshSource, NormalSettings, PanelSize, ShadingMode, MAX_PANEL_SIDE,
 };
-use crate::shading::color::parse_hex;
+use crate::shading::color::Rgb;
 use crate::shading::lighting::{Light, LightKind, Material, ReflectionModel, MAX_LIGHTS};
 use glam::Quat;
 use serde::{Deserialize, Serialize};
@@ -34,7 +35,7 @@ pub struct Scene {
     #[serde(alias = "triangulation")]
     pub polygons: PolygonMode,
     /// Subdivision of the mesh before drawing (none by default).
-    pub subdivision: crate::geometry::subdivide::Subdivision,
+    pub subdivision: Subdivision,
     /// The camera.
     pub camera: Camera,
     /// The mesh's rotation as a quaternion (x, y, z, w); normalised on use.
@@ -42,7 +43,7 @@ pub struct Scene {
     /// Up to [`MAX_LIGHTS`] lights, fixed in world space.
     pub lights: Vec<Light>,
     /// Ambient light colour, sRGB `#rrggbb`.
-    pub ambient_light: String,
+    pub ambient_light: Rgb,
     /// The surface.
     pub material: Material,
     /// Specular reflection model.
@@ -54,7 +55,7 @@ pub struct Scene {
     /// Size of each panel.
     pub panel: PanelSize,
     /// Background colour, sRGB `#rrggbb`.
-    pub background: String,
+    pub background: Rgb,
     /// What the difference view compares and how it is scaled.
     pub difference: DifferenceSettings,
 }
@@ -68,7 +69,7 @@ impl Default for Scene {
             mesh: MeshSource::Shape(Shape::Icosphere { level: 2 }),
             normals: NormalSettings::default(),
             polygons: PolygonMode::AsAuthored,
-            subdivision: crate::geometry::subdivide::Subdivision::default(),
+            subdivision: Subdivision::default(),
             camera: Camera::default(),
             rotation: [0.0, 0.0, 0.0, 1.0],
             lights: vec![
@@ -76,7 +77,7 @@ impl Default for Scene {
                     kind: LightKind::Directional,
                     azimuth_deg: 35.0,
                     elevation_deg: 30.0,
-                    color: "#fff4e0".into(),
+                    color: Rgb::hex("#fff4e0"),
                     intensity: 1.0,
                     ..Light::default()
                 },
@@ -85,69 +86,125 @@ impl Default for Scene {
                     azimuth_deg: -70.0,
                     elevation_deg: -10.0,
                     distance: 3.0,
-                    color: "#9fc3ff".into(),
+                    color: Rgb::hex("#9fc3ff"),
                     intensity: 0.5,
                     falloff: 0.05,
                 },
             ],
-            ambient_light: "#ffffff".into(),
+            ambient_light: Rgb::hex("#ffffff"),
             material: Material::default(),
             model: ReflectionModel::BlinnPhong,
             cull_back_faces: true,
             perspective_correct: true,
             panel: PanelSize::default(),
-            background: "#1b1d22".into(),
+            background: Rgb::hex("#1b1d22"),
             difference: DifferenceSettings::default(),
         }
     }
 }
 
-/// Why a scene was refused.
+/// Why a scene was refused. The messages are written for the person who gave the scene.
 #[derive(Clone, Debug, PartialEq, Eq)]
-pub struct SceneError(pub String);
+pub enum SceneError {
+    /// The text is not a scene: JSON syntax, a wrong type, a malformed colour or an unknown
+    /// field (the parser's message, with line and column).
+    Syntax(String),
+    /// A format version this build does not read.
+    Version(u32),
+    /// A field is out of range or does not fit another.
+    Field {
+        /// The field's path in the scene JSON, e.g. `lights[0].intensity`.
+        path: String,
+        /// What is wrong, naming the field as the page does.
+        message: String,
+    },
+}
 
 impl fmt::Display for SceneError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        f.write_str(&self.0)
+        match self {
+            SceneError::Syntax(m) => write!(f, "scene JSON: {m}"),
+            SceneError::Version(v) => write!(
+                f,
+                "scene version {v} is not supported (this build reads 1 to {SCENE_VERSION})"
+            ),
+            SceneError::Field { message, .. } => f.write_str(message),
+        }
     }
 }
 
 impl std::error::Error for SceneError {}
 
-// The checks below take the field's name as `impl Display` so that a valid scene is checked
-// without formatting (and allocating) any message: the page validates every frame.
+/// A field as the checks name it: its label in messages and its path in the JSON. Both are
+/// formatted only when a message is needed, so a valid scene is checked without allocating
+/// (the page validates on every edit).
+trait FieldName {
+    fn label(&self) -> String;
+    fn path(&self) -> String;
+    fn error(&self, problem: fmt::Arguments<'_>) -> SceneError {
+        SceneError::Field {
+            path: self.path(),
+            message: format!("{} {problem}", self.label()),
+        }
+    }
+}
 
-fn finite(name: impl fmt::Display, v: f32) -> Result<(), SceneError> {
+/// A top-level field: (label, path).
+impl FieldName for (&str, &str) {
+    fn label(&self) -> String {
+        self.0.to_string()
+    }
+    fn path(&self) -> String {
+        self.1.to_string()
+    }
+}
+
+/// A field of light `.0`: its label `.1` ("light N label", counted from 1) and JSON name `.2`.
+struct LightField(usize, &'static str, &'static str);
+
+impl FieldName for LightField {
+    fn label(&self) -> String {
+        format!("light {} {}", self.0 + 1, self.1)
+    }
+    fn path(&self) -> String {
+        format!("lights[{}].{}", self.0, self.2)
+    }
+}
+
+fn finite(name: impl FieldName, v: f32) -> Result<(), SceneError> {
     if v.is_finite() {
         Ok(())
     } else {
-        Err(SceneError(format!("{name} must be a finite number")))
+        Err(name.error(format_args!("must be a finite number")))
     }
 }
 
-fn in_range(name: impl fmt::Display, v: f32, lo: f32, hi: f32) -> Result<(), SceneError> {
+fn in_range(name: impl FieldName, v: f32, lo: f32, hi: f32) -> Result<(), SceneError> {
     if (lo..=hi).contains(&v) {
         Ok(())
     } else {
-        Err(SceneError(format!(
-            "{name} must be between {lo} and {hi}, not {v}"
-        )))
+        Err(name.error(format_args!("must be between {lo} and {hi}, not {v}")))
     }
 }
 
-/// "light N field", formatted only when a message is needed.
-struct LightField(usize, &'static str);
+/// Component `.0` of the rotation quaternion.
+struct RotationField(usize);
 
-impl fmt::Display for LightField {
-    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        write!(f, "light {} {}", self.0 + 1, self.1)
+impl FieldName for RotationField {
+    fn label(&self) -> String {
+        format!("rotation[{}]", self.0)
+    }
+    fn path(&self) -> String {
+        self.label()
     }
 }
 
-fn colour(name: impl fmt::Display, v: &str) -> Result<(), SceneError> {
-    parse_hex(v)
-        .map(|_| ())
-        .map_err(|e| SceneError(format!("{name}: {e}")))
+/// A message from a settings type's own check, placed at `path`.
+fn at(path: &str) -> impl Fn(String) -> SceneError + '_ {
+    move |message| SceneError::Field {
+        path: path.to_string(),
+        message,
+    }
 }
 
 impl Scene {
@@ -156,11 +213,10 @@ impl Scene {
     /// # Errors
     /// A message naming the problem (syntax with line and column, unknown field, value out
     /// of range).
-    pub fn from_json(text: &str) -> Result<Scene, SceneError> {
+    pub fn from_json(text: &str) -> Result<ValidScene, SceneError> {
         let scene: Scene =
-            serde_json::from_str(text).map_err(|e| SceneError(format!("scene JSON: {e}")))?;
-        scene.validate()?;
-        Ok(scene)
+            serde_json::from_str(text).map_err(|e| SceneError::Syntax(e.to_string()))?;
+        scene.validated()
     }
 
     /// The scene as pretty JSON.
@@ -169,80 +225,128 @@ impl Scene {
         serde_json::to_string_pretty(self).unwrap_or_default()
     }
 
+    /// Checks every field's range and turns the scene into a [`ValidScene`], the only kind the
+    /// pipeline draws.
+    ///
+    /// # Errors
+    /// The first problem found.
+    pub fn validated(self) -> Result<ValidScene, SceneError> {
+        self.validate()?;
+        Ok(ValidScene(self))
+    }
+
+    /// A validated copy (see [`Scene::validated`]).
+    ///
+    /// # Errors
+    /// The first problem found.
+    pub fn checked(&self) -> Result<ValidScene, SceneError> {
+        self.clone().validated()
+    }
+
     /// Checks every field's range.
     ///
     /// # Errors
     /// The first problem found.
     pub fn validate(&self) -> Result<(), SceneError> {
         if self.version == 0 || self.version > SCENE_VERSION {
-            return Err(SceneError(format!(
-                "scene version {} is not supported (this build reads 1 to {SCENE_VERSION})",
-                self.version
-            )));
+            return Err(SceneError::Version(self.version));
         }
         match &self.mesh {
-            MeshSource::Shape(s) => s.validate().map_err(SceneError)?,
+            MeshSource::Shape(s) => s.validate().map_err(at("mesh.shape"))?,
             MeshSource::File { name } => {
                 if name.is_empty() {
-                    return Err(SceneError("mesh file name is empty".into()));
+                    return Err(at("mesh.file.name")("mesh file name is empty".into()));
                 }
             }
         }
-        in_range("crease angle", self.normals.crease_deg, 0.0, 180.0)?;
-        if self.subdivision.levels > crate::geometry::subdivide::MAX_LEVELS {
-            return Err(SceneError(format!(
-                "subdivision has at most {} levels, not {}",
-                crate::geometry::subdivide::MAX_LEVELS,
+        in_range(
+            ("crease angle", "normals.crease_deg"),
+            self.normals.crease_deg,
+            0.0,
+            180.0,
+        )?;
+        if self.subdivision.levels > MAX_LEVELS {
+            return Err(at("subdivision.levels")(format!(
+                "subdivision has at most {MAX_LEVELS} levels, not {}",
                 self.subdivision.levels
             )));
         }
-        self.camera.validate().map_err(SceneError)?;
+        self.camera.validate().map_err(at("camera"))?;
         for (i, v) in self.rotation.iter().enumerate() {
-            finite(format_args!("rotation[{i}]"), *v)?;
+            finite(RotationField(i), *v)?;
         }
         if self.rotation.iter().map(|v| v * v).sum::<f32>() < 1e-12 {
-            return Err(SceneError("rotation quaternion has zero length".into()));
+            return Err(at("rotation")("rotation quaternion has zero length".into()));
         }
         if self.lights.len() > MAX_LIGHTS {
-            return Err(SceneError(format!(
+            return Err(at("lights")(format!(
                 "at most {MAX_LIGHTS} lights, not {}",
                 self.lights.len()
             )));
         }
         for (i, l) in self.lights.iter().enumerate() {
-            let n = |f: &'static str| LightField(i, f);
-            finite(n("azimuth"), l.azimuth_deg)?;
-            in_range(n("elevation"), l.elevation_deg, -90.0, 90.0)?;
-            in_range(n("distance"), l.distance, 0.0, 1000.0)?;
-            in_range(n("intensity"), l.intensity, 0.0, 100.0)?;
-            in_range(n("falloff"), l.falloff, 0.0, 100.0)?;
-            colour(n("colour"), &l.color)?;
+            finite(LightField(i, "azimuth", "azimuth_deg"), l.azimuth_deg)?;
+            in_range(
+                LightField(i, "elevation", "elevation_deg"),
+                l.elevation_deg,
+                -90.0,
+                90.0,
+            )?;
+            in_range(
+                LightField(i, "distance", "distance"),
+                l.distance,
+                0.0,
+                1000.0,
+            )?;
+            in_range(
+                LightField(i, "intensity", "intensity"),
+                l.intensity,
+                0.0,
+                100.0,
+            )?;
+            in_range(LightField(i, "falloff", "falloff"), l.falloff, 0.0, 100.0)?;
         }
-        colour("ambient light", &self.ambient_light)?;
-        colour("background", &self.background)?;
         let m = &self.material;
-        colour("base colour", &m.base_color)?;
-        colour("emissive colour", &m.emissive)?;
-        in_range("ambient", m.ambient, 0.0, 10.0)?;
-        in_range("diffuse", m.diffuse, 0.0, 10.0)?;
-        in_range("specular", m.specular, 0.0, 10.0)?;
-        in_range("shininess", m.shininess, 1.0, 2048.0)?;
-        in_range("emissive strength", m.emissive_strength, 0.0, 100.0)?;
+        in_range(("ambient", "material.ambient"), m.ambient, 0.0, 10.0)?;
+        in_range(("diffuse", "material.diffuse"), m.diffuse, 0.0, 10.0)?;
+        in_range(("specular", "material.specular"), m.specular, 0.0, 10.0)?;
+        in_range(
+            ("shininess", "material.shininess"),
+            m.shininess,
+            1.0,
+            2048.0,
+        )?;
+        in_range(
+            ("emissive strength", "material.emissive_strength"),
+            m.emissive_strength,
+            0.0,
+            100.0,
+        )?;
         let d = &self.difference;
-        in_range("difference threshold", d.threshold, 0.01, 100.0)?;
-        in_range("difference scale", d.scale_max, 0.1, 200.0)?;
+        in_range(
+            ("difference threshold", "difference.threshold"),
+            d.threshold,
+            0.01,
+            100.0,
+        )?;
+        in_range(
+            ("difference scale", "difference.scale_max"),
+            d.scale_max,
+            0.1,
+            200.0,
+        )?;
         if d.pair[0] == d.pair[1] || d.pair.contains(&ShadingMode::Flat) {
-            return Err(SceneError(
+            return Err(at("difference.pair")(
                 "the difference view compares two different shadings among gouraud, phong and exact"
                     .into(),
             ));
         }
-        for (name, v) in [
-            ("panel width", self.panel.width),
-            ("panel height", self.panel.height),
+        for (name, path, v) in [
+            ("panel width", "panel.width", self.panel.width),
+            ("panel height", "panel.height", self.panel.height),
         ] {
             if !(1..=MAX_PANEL_SIDE).contains(&v) {
-                return Err(SceneError(format!(
+                return Err(at(path)(format!(
                     "{name} must be 1 to {MAX_PANEL_SIDE} pixels, not {v}"
                 )));
             }
@@ -302,11 +406,94 @@ impl Scene {
     }
 }
 
+/// A scene that passed [`Scene::validate`]: the only kind the pipeline and the analysis
+/// take, so they never meet a value out of range and never re-check one.
+///
+/// Made by [`Scene::validated`], [`Scene::from_json`], link decoding or deserialisation (which
+/// validates); read through `Deref`; changed only by the methods below, which keep it valid,
+/// or by [`ValidScene::edit`], which validates the result.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+#[serde(transparent)]
+pub struct ValidScene(Scene);
+
+impl ValidScene {
+    /// The scene.
+    pub fn scene(&self) -> &Scene {
+        &self.0
+    }
+
+    /// The scene, to change and validate again.
+    pub fn into_scene(self) -> Scene {
+        self.0
+    }
+
+    /// A changed copy, validated.
+    ///
+    /// # Errors
+    /// When the change leaves a field out of range (the original is untouched).
+    pub fn edit(&self, change: impl FnOnce(&mut Scene)) -> Result<ValidScene, SceneError> {
+        let mut s = self.0.clone();
+        change(&mut s);
+        s.validated()
+    }
+
+    /// Sets the rotation (stored normalised; a quaternion without a usable length becomes the
+    /// identity), which keeps the scene valid.
+    pub fn set_rotation(&mut self, q: Quat) {
+        self.0.set_rotation(q);
+    }
+
+    /// Sets the camera's roll in degrees; a non-finite angle leaves it as it is.
+    pub fn set_roll(&mut self, deg: f32) {
+        if deg.is_finite() {
+            self.0.camera.roll_deg = deg;
+        }
+    }
+
+    /// Turns the mesh as [`Scene::turn`] does; non-finite angles leave it as it is.
+    pub fn turn(&mut self, right_deg: f32, down_deg: f32) {
+        if right_deg.is_finite() && down_deg.is_finite() {
+            self.0.turn(right_deg, down_deg);
+        }
+    }
+}
+
+impl Default for ValidScene {
+    /// The built-in default scene (valid: a test checks it).
+    fn default() -> Self {
+        ValidScene(Scene::default())
+    }
+}
+
+impl std::ops::Deref for ValidScene {
+    type Target = Scene;
+    fn deref(&self) -> &Scene {
+        &self.0
+    }
+}
+
+impl PartialEq<Scene> for ValidScene {
+    fn eq(&self, other: &Scene) -> bool {
+        self.0 == *other
+    }
+}
+
+impl<'de> Deserialize<'de> for ValidScene {
+    /// Deserialises a [`Scene`] and validates it; a refusal is the deserialiser's error with
+    /// the validation message.
+    fn deserialize<D: serde::Deserializer<'de>>(d: D) -> Result<ValidScene, D::Error> {
+        Scene::deserialize(d)?
+            .validated()
+            .map_err(serde::de::Error::custom)
+    }
+}
+
 /// `q / |q|`, or the identity when `q` has no usable length.
 fn normalized(q: Quat) -> Quat {
     let len = q.length();
-    if len > 0.0 && len.is_finite() {
-        q * (1.0 / len)
+    let unit = q * (1.0 / len);
+    if len > 0.0 && len.is_finite() && unit.is_finite() {
+        unit
     } else {
         Quat::IDENTITY
     }
@@ -345,7 +532,7 @@ impl Scene {
         let mut s = Scene {
             mesh: MeshSource::Shape(Shape::Icosphere { level }),
             panel: PanelSize { width, height },
-            background: "#000000".into(),
+            background: Rgb::hex("#000000"),
             ..Scene::default()
         };
         let elevation = |y: f32, len: f32| libm::asinf(y / len).to_degrees();
@@ -354,7 +541,7 @@ impl Scene {
                 kind: LightKind::Directional,
                 azimuth_deg: 45.0,
                 elevation_deg: elevation(1.0, 3.0f32.sqrt()),
-                color: "#ffffff".into(),
+                color: Rgb::hex("#ffffff"),
                 intensity: 1.0,
                 ..Light::default()
             },
@@ -363,13 +550,13 @@ impl Scene {
                 azimuth_deg: 45.0,
                 elevation_deg: elevation(1.0, 3.0),
                 distance: 3.0,
-                color: "#ffffff".into(),
+                color: Rgb::hex("#ffffff"),
                 intensity: 0.8,
                 falloff: 0.1,
             },
         ];
         s.material = Material {
-            base_color: "#cb5959".into(),
+            base_color: Rgb::hex("#cb5959"),
             ambient: 0.05,
             diffuse: 1.0,
             specular: 0.5,

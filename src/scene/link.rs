@@ -8,10 +8,12 @@
 //! link from an older build still opens (fields it lacks take today's defaults) and anything
 //! else is refused with a message.
 
-use crate::scene::definition::{Scene, SceneError};
+use crate::scene::definition::{Scene, ValidScene};
+use crate::scene::settings::PanelSize;
 use base64::engine::general_purpose::URL_SAFE_NO_PAD;
 use base64::Engine;
 use serde_json::{Map, Value};
+use std::fmt;
 
 /// The link format written by this build.
 const PREFIX: &str = "1.";
@@ -19,6 +21,26 @@ const PREFIX: &str = "1.";
 const MAX_JSON: usize = 64 * 1024;
 /// Largest link text accepted, in characters.
 const MAX_LINK: usize = 16 * 1024;
+
+/// Why link text was refused.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum LinkError {
+    /// The text is not a link this build reads (unknown format, damaged, cut short, too long).
+    Unreadable(&'static str),
+    /// The link decodes, but its scene does not validate (the scene's message).
+    Unusable(String),
+}
+
+impl fmt::Display for LinkError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match self {
+            LinkError::Unreadable(m) => write!(f, "This link cannot be read: {m}"),
+            LinkError::Unusable(m) => write!(f, "This link's scene cannot be used: {m}"),
+        }
+    }
+}
+
+impl std::error::Error for LinkError {}
 
 /// The fields of `value` that differ from `base` (objects compared field by field).
 fn diff(value: &Value, base: &Value) -> Option<Value> {
@@ -84,8 +106,8 @@ pub fn encode(scene: &Scene) -> String {
 /// # Errors
 /// A message saying what is wrong: unknown format, damaged or truncated data, or a scene that
 /// does not validate.
-pub fn decode(text: &str, panel: crate::scene::settings::PanelSize) -> Result<Scene, SceneError> {
-    let err = |m: &str| SceneError(format!("This link cannot be read: {m}"));
+pub fn decode(text: &str, panel: PanelSize) -> Result<ValidScene, LinkError> {
+    let err = LinkError::Unreadable;
     let text = text.trim_start_matches('#').trim_start_matches("s=");
     if text.len() > MAX_LINK {
         return Err(err("it is too long"));
@@ -107,11 +129,10 @@ pub fn decode(text: &str, panel: crate::scene::settings::PanelSize) -> Result<Sc
     }
     let mut value = scene_value(&Scene::default());
     merge(&mut value, patch);
-    let mut scene: Scene = serde_json::from_value(value)
-        .map_err(|e| SceneError(format!("This link's scene cannot be used: {e}")))?;
+    let mut scene: Scene =
+        serde_json::from_value(value).map_err(|e| LinkError::Unusable(e.to_string()))?;
     scene.panel = panel;
     scene
-        .validate()
-        .map_err(|e| SceneError(format!("This link's scene cannot be used: {e}")))?;
-    Ok(scene)
+        .validated()
+        .map_err(|e| LinkError::Unusable(e.to_string()))
 }

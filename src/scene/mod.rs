@@ -6,8 +6,8 @@ pub(crate) mod link;
 pub(crate) mod presets;
 pub(crate) mod settings;
 
-pub use definition::{axis_angle, Scene, SceneError, SCENE_VERSION};
-pub use link::{decode, encode};
+pub use definition::{axis_angle, Scene, SceneError, ValidScene, SCENE_VERSION};
+pub use link::{decode, encode, LinkError};
 pub use presets::{preset, presets, Preset};
 pub use settings::{
     DifferenceSettings, MeshSource, NormalSettings, NormalSource, PanelSize, ShadingMode,

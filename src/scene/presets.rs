@@ -7,6 +7,7 @@ use crate::geometry::shapes::Shape;
 use crate::geometry::vertex_buffer::PolygonMode;
 use crate::scene::definition::Scene;
 use crate::scene::settings::MeshSource;
+use crate::shading::color::Rgb;
 use crate::shading::lighting::{Finish, Light, LightKind, Material, ReflectionModel};
 
 /// A named scene with its caption.
@@ -49,7 +50,7 @@ pub fn presets() -> Vec<Preset> {
         segments: 12,
     });
     mach.material = Material {
-        base_color: "#c9b28f".into(),
+        base_color: Rgb::hex("#c9b28f"),
         specular: 0.0,
         ..Material::default()
     };
@@ -61,7 +62,7 @@ pub fn presets() -> Vec<Preset> {
         segments: 12,
     });
     crawl.camera.pitch_deg = 30.0;
-    crawl.material.base_color = "#b8472f".into();
+    crawl.material.base_color = Rgb::hex("#b8472f");
     crawl.material.shininess = 120.0;
     crawl.material.specular = 0.8;
 
@@ -69,7 +70,7 @@ pub fn presets() -> Vec<Preset> {
     split.mesh = MeshSource::Shape(Shape::QuadGrid { cells: 3 });
     split.polygons = PolygonMode::AsAuthored;
     split.camera.distance = 2.0;
-    split.material.base_color = "#5d7fb3".into();
+    split.material.base_color = Rgb::hex("#5d7fb3");
     split.material.shininess = 40.0;
     split.lights = vec![light(LightKind::Point, 20.0, 25.0, 1.2)];
     split.lights[0].falloff = 0.6;
@@ -81,7 +82,7 @@ pub fn presets() -> Vec<Preset> {
     let mut close = base.clone();
     close.mesh = MeshSource::Shape(Shape::QuadGrid { cells: 1 });
     close.material = Material {
-        base_color: "#8a9a5b".into(),
+        base_color: Rgb::hex("#8a9a5b"),
         specular: 0.3,
         shininess: 20.0,
         ..Material::default()
@@ -97,7 +98,7 @@ pub fn presets() -> Vec<Preset> {
     affine.camera.distance = 1.9;
     affine.camera.fov_y_deg = 70.0;
     affine.camera.projection = Projection::Perspective;
-    affine.material.base_color = "#d8d2c4".into();
+    affine.material.base_color = Rgb::hex("#d8d2c4");
     affine.material.finish = Finish::Dielectric;
     affine.model = ReflectionModel::BlinnPhong;
     affine.lights = vec![light(LightKind::Point, 0.0, 60.0, 1.0)];

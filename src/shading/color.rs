@@ -208,3 +208,75 @@ pub fn to_hex(c: [u8; 3]) -> String {
 pub fn srgb8_to_linear(c: [u8; 3]) -> [f32; 3] {
     c.map(|v| srgb_to_linear(f32::from(v) / 255.0))
 }
+
+/// An 8-bit sRGB colour, written `#rrggbb` in scene JSON, links and the page.
+///
+/// Text becomes an `Rgb` once, where it enters (deserialisation or [`str::parse`]); code past
+/// that point holds a colour that cannot be malformed.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, Default)]
+pub struct Rgb(pub [u8; 3]);
+
+impl Rgb {
+    /// Black.
+    pub const BLACK: Rgb = Rgb([0, 0, 0]);
+    /// White.
+    pub const WHITE: Rgb = Rgb([255, 255, 255]);
+
+    /// A colour from a `#rrggbb` literal in the code, checked at compile time when used in a
+    /// constant.
+    ///
+    /// # Panics
+    /// On a malformed literal. Text from users goes through [`str::parse`] instead.
+    pub const fn hex(s: &str) -> Rgb {
+        let b = s.as_bytes();
+        assert!(b.len() == 7 && b[0] == b'#', "a colour literal is #rrggbb");
+        const fn digit(c: u8) -> u8 {
+            match c {
+                b'0'..=b'9' => c - b'0',
+                b'a'..=b'f' => c - b'a' + 10,
+                b'A'..=b'F' => c - b'A' + 10,
+                _ => panic!("a colour literal has hex digits"),
+            }
+        }
+        Rgb([
+            digit(b[1]) * 16 + digit(b[2]),
+            digit(b[3]) * 16 + digit(b[4]),
+            digit(b[5]) * 16 + digit(b[6]),
+        ])
+    }
+
+    /// Linear-light RGB (IEC 61966-2-1 decoding).
+    pub fn linear(self) -> [f32; 3] {
+        srgb8_to_linear(self.0)
+    }
+}
+
+impl std::str::FromStr for Rgb {
+    type Err = String;
+
+    /// Parses `#rrggbb` (the `#` may be left out).
+    fn from_str(s: &str) -> Result<Rgb, String> {
+        parse_hex(s).map(Rgb)
+    }
+}
+
+impl std::fmt::Display for Rgb {
+    /// `#rrggbb`, lower case.
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        let [r, g, b] = self.0;
+        write!(f, "#{r:02x}{g:02x}{b:02x}")
+    }
+}
+
+impl serde::Serialize for Rgb {
+    fn serialize<S: serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        s.collect_str(self)
+    }
+}
+
+impl<'de> serde::Deserialize<'de> for Rgb {
+    fn deserialize<D: serde::Deserializer<'de>>(d: D) -> Result<Rgb, D::Error> {
+        let text = <std::borrow::Cow<'de, str>>::deserialize(d)?;
+        text.parse().map_err(serde::de::Error::custom)
+    }
+}

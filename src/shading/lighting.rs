@@ -11,7 +11,7 @@
 //! metallic highlights are tinted by the base colour. Point lights fall off as 1 / (1 + k d^2).
 
 use crate::geometry::camera::CameraFrame;
-use crate::shading::color::{parse_hex, srgb8_to_linear};
+use crate::shading::color::Rgb;
 use crate::shading::lanes::{F4, V4};
 use glam::Vec3;
 use serde::{Deserialize, Serialize};
@@ -65,7 +65,7 @@ pub struct Light {
     /// Point lights: distance of the light from the origin along that direction.
     pub distance: f32,
     /// Colour, sRGB `#rrggbb`.
-    pub color: String,
+    pub color: Rgb,
     /// Multiplier of the colour (linear).
     pub intensity: f32,
     /// Point lights: k in 1 / (1 + k d^2), d in world units.
@@ -79,7 +79,7 @@ impl Default for Light {
             azimuth_deg: 35.0,
             elevation_deg: 30.0,
             distance: 2.5,
-            color: "#ffffff".into(),
+            color: Rgb::hex("#ffffff"),
             intensity: 1.0,
             falloff: 0.1,
         }
@@ -106,7 +106,7 @@ impl Light {
 #[serde(default, deny_unknown_fields)]
 pub struct Material {
     /// Base (diffuse) colour, sRGB `#rrggbb`.
-    pub base_color: String,
+    pub base_color: Rgb,
     /// Ambient reflectance, times the base colour and the ambient light.
     pub ambient: f32,
     /// Diffuse reflectance, times the base colour.
@@ -116,7 +116,7 @@ pub struct Material {
     /// Specular exponent, 1..=2048.
     pub shininess: f32,
     /// Emitted colour, sRGB `#rrggbb`.
-    pub emissive: String,
+    pub emissive: Rgb,
     /// Multiplier of the emitted colour (linear).
     pub emissive_strength: f32,
     /// Dielectric or metal highlights.
@@ -126,12 +126,12 @@ pub struct Material {
 impl Default for Material {
     fn default() -> Self {
         Material {
-            base_color: "#2f8f83".into(),
+            base_color: Rgb::hex("#2f8f83"),
             ambient: 0.08,
             diffuse: 0.9,
             specular: 0.6,
             shininess: 80.0,
-            emissive: "#000000".into(),
+            emissive: Rgb::hex("#000000"),
             emissive_strength: 0.0,
             finish: Finish::Dielectric,
         }
@@ -163,23 +163,20 @@ pub struct Lighting {
     orthographic: bool,
 }
 
-fn linear_of(hex: &str) -> Result<Vec3, String> {
-    Ok(Vec3::from(srgb8_to_linear(parse_hex(hex)?)))
+fn linear_of(c: Rgb) -> Vec3 {
+    Vec3::from(c.linear())
 }
 
 impl Lighting {
-    /// Prepares lights and material for a frame.
-    ///
-    /// # Errors
-    /// A message when a colour is not `#rrggbb`.
+    /// Prepares lights and material for a frame (at most [`MAX_LIGHTS`] lights are used).
     pub fn new(
         lights: &[Light],
-        ambient_light: &str,
+        ambient_light: Rgb,
         material: &Material,
         model: ReflectionModel,
         camera: &CameraFrame,
-    ) -> Result<Lighting, String> {
-        let base = linear_of(&material.base_color)?;
+    ) -> Lighting {
+        let base = linear_of(material.base_color);
         let mut prepared = [PreparedLight::default(); MAX_LIGHTS];
         for (slot, l) in prepared.iter_mut().zip(lights.iter()) {
             let dir = l.direction();
@@ -190,7 +187,7 @@ impl Lighting {
                 } else {
                     dir
                 },
-                color: linear_of(&l.color)? * l.intensity,
+                color: linear_of(l.color) * l.intensity,
                 falloff: l.falloff,
             };
         }
@@ -198,11 +195,11 @@ impl Lighting {
             Finish::Dielectric => Vec3::ONE,
             Finish::Metal => base,
         };
-        Ok(Lighting {
+        Lighting {
             lights: prepared,
             count: lights.len().min(MAX_LIGHTS),
-            constant: base * linear_of(ambient_light)? * material.ambient
-                + linear_of(&material.emissive)? * material.emissive_strength,
+            constant: base * linear_of(ambient_light) * material.ambient
+                + linear_of(material.emissive) * material.emissive_strength,
             diffuse: base * material.diffuse,
             specular: spec_tint * material.specular,
             shininess: material.shininess,
@@ -210,7 +207,7 @@ impl Lighting {
             eye: camera.eye,
             toward_eye: camera.toward_eye,
             orthographic: camera.orthographic,
-        })
+        }
     }
 
     /// Outgoing linear radiance at world position `p` with unit normal `n`.

@@ -9,7 +9,7 @@ pub(crate) mod lighting;
 pub use color::{
     encode_srgb8, encode_srgb8_reference, linear_to_srgb, linear_to_srgb_f64,
     max_thresholds_per_bucket, parse_hex, srgb8_to_linear, srgb_to_linear, srgb_to_linear_f64,
-    to_hex, SrgbEncoder,
+    to_hex, Rgb, SrgbEncoder,
 };
 pub use lanes::{F4, M4, V4};
 pub use lighting::{
