@@ -33,10 +33,18 @@ fn frames(c: &mut Criterion) {
         let mut frame = 0u32;
         // Warm up: geometry built, buffers sized.
         bench
-            .render_panels(&Scene::bench(level, w, h, 0).checked().expect("valid scene"))
+            .render_panels(
+                &Scene::benchmark(level, w, h, 0)
+                    .checked()
+                    .expect("valid scene"),
+            )
             .expect("bench scene renders");
         let scenes: Vec<ValidScene> = (0..360)
-            .map(|f| Scene::bench(level, w, h, f).checked().expect("valid scene"))
+            .map(|f| {
+                Scene::benchmark(level, w, h, f)
+                    .checked()
+                    .expect("valid scene")
+            })
             .collect();
         group.bench_function(
             BenchmarkId::from_parameter(format!("L{level}_{w}x{h}")),
@@ -90,7 +98,7 @@ fn sweep_cost(c: &mut Criterion) {
     group.sample_size(10);
     for (name, mut scene) in [
         ("default", Scene::default()),
-        ("bench_L5", Scene::bench(5, 256, 256, 0)),
+        ("bench_L5", Scene::benchmark(5, 256, 256, 0)),
     ] {
         scene.panel.width = 256;
         scene.panel.height = 256;

@@ -18,15 +18,15 @@ fn main() {
     let (level, w, h, frames) = (num(0, 5), num(1, 800), num(2, 600), num(3, 10));
     let kind = args.get(4).map(String::as_str).unwrap_or("pair");
     let modes: &[ShadingMode] = match kind {
-        "phong" => &[ShadingMode::Phong],
-        "gouraud" => &[ShadingMode::Gouraud],
-        _ => &[ShadingMode::Gouraud, ShadingMode::Phong],
+        "phong" => &[ShadingMode::PerPixel],
+        "gouraud" => &[ShadingMode::PerVertex],
+        _ => &[ShadingMode::PerVertex, ShadingMode::PerPixel],
     };
     let mut r = Renderer::new();
     let mut fbs: Vec<Framebuffer> = modes.iter().map(|_| Framebuffer::new(0, 0)).collect();
     let mut fragments = 0u64;
     for f in 0..frames {
-        let Ok(scene) = Scene::bench(level, w, h, f).validated() else {
+        let Ok(scene) = Scene::benchmark(level, w, h, f).validated() else {
             eprintln!("frame_cost: the bench scene does not validate");
             std::process::exit(1);
         };

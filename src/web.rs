@@ -22,8 +22,8 @@ fn js_error(msg: impl std::fmt::Display) -> JsValue {
 
 /// The panels in the order `panel_ptr` numbers them.
 const PANELS: [Panel; 4] = [
-    Panel::Gouraud,
-    Panel::Phong,
+    Panel::PerVertex,
+    Panel::PerPixel,
     Panel::Difference,
     Panel::Exact,
 ];
@@ -219,9 +219,14 @@ impl Viewer {
 
     /// Loads the fixed benchmark scene (shared/peers/SCENE.md) at icosphere `level` and
     /// panel size `width` x `height`.
-    #[wasm_bindgen(js_name = loadBenchScene)]
-    pub fn load_bench_scene(&mut self, level: u32, width: u32, height: u32) -> Result<(), JsValue> {
-        let scene = Scene::bench(level, width, height, 0)
+    #[wasm_bindgen(js_name = loadBenchmarkScene)]
+    pub fn load_benchmark_scene(
+        &mut self,
+        level: u32,
+        width: u32,
+        height: u32,
+    ) -> Result<(), JsValue> {
+        let scene = Scene::benchmark(level, width, height, 0)
             .validated()
             .map_err(js_error)?;
         self.replace_scene(scene);

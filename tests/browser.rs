@@ -167,8 +167,8 @@ async fn native_render(c: &Client) -> (ValidScene, Workbench) {
 async fn assert_same_as_native(c: &Client, when: &str) {
     let (scene, bench) = native_render(c).await;
     for (name, panel) in [
-        ("gouraud", Panel::Gouraud),
-        ("phong", Panel::Phong),
+        ("gouraud", Panel::PerVertex),
+        ("phong", Panel::PerPixel),
         ("difference", Panel::Difference),
     ] {
         let (w, h, page) = canvas(c, name).await;

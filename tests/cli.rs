@@ -39,8 +39,8 @@ fn render_writes_panels_identical_to_the_library_and_a_sheet() {
     scene.panel.height = 150;
     let mut r = Renderer::new();
     for (file, mode) in [
-        ("gouraud.png", ShadingMode::Gouraud),
-        ("phong.png", ShadingMode::Phong),
+        ("gouraud.png", ShadingMode::PerVertex),
+        ("phong.png", ShadingMode::PerPixel),
     ] {
         let (w, h, bytes) = read_png(&dir.join(file)).expect("readable PNG");
         assert_eq!((w, h), (200, 150), "{file} size");
@@ -158,7 +158,7 @@ fn render_metrics_and_compare_agree() {
     let p95 = m["metrics"]["de00"]["p95"].as_f64().expect("p95");
     assert!(p95 > 1.0, "default scene: Gouraud vs Phong p95 {p95}");
     assert_eq!(
-        m["lighting"]["gouraud_vertices"], 162,
+        m["lighting"]["per_vertex"], 162,
         "icosphere L2 has 162 vertices"
     );
 

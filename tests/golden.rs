@@ -61,14 +61,14 @@ fn pixels_match_the_golden_images() {
     for (name, scene) in scenes() {
         for mode in [
             ShadingMode::Flat,
-            ShadingMode::Gouraud,
-            ShadingMode::Phong,
+            ShadingMode::PerVertex,
+            ShadingMode::PerPixel,
             ShadingMode::Exact,
         ] {
             let mut fb = Framebuffer::new(0, 0);
             r.render(&scene.checked().expect("valid scene"), mode, &mut fb)
                 .expect("render");
-            let path = dir.join(format!("{name}-{}.png", format!("{mode:?}").to_lowercase()));
+            let path = dir.join(format!("{name}-{}.png", mode.id()));
             if bless {
                 std::fs::create_dir_all(&dir).expect("image folder");
                 write_png(&path, fb.width(), fb.height(), fb.bytes()).expect("write golden");
@@ -119,14 +119,14 @@ fn one_pass_pair_equals_separate_panels() {
             let sg = r
                 .render(
                     &scene.checked().expect("valid scene"),
-                    ShadingMode::Gouraud,
+                    ShadingMode::PerVertex,
                     &mut g1,
                 )
                 .expect("gouraud");
             let sp = r
                 .render(
                     &scene.checked().expect("valid scene"),
-                    ShadingMode::Phong,
+                    ShadingMode::PerPixel,
                     &mut p1,
                 )
                 .expect("phong");

@@ -277,7 +277,7 @@ fn the_same_shape_in_eight_files_renders_identical_pixels() {
         let mut r = Renderer::new();
         r.set_file_mesh(m.mesh);
         let mut out = Vec::new();
-        for mode in [ShadingMode::Gouraud, ShadingMode::Phong] {
+        for mode in [ShadingMode::PerVertex, ShadingMode::PerPixel] {
             let mut fb = Framebuffer::new(0, 0);
             r.render(&scene.checked().expect("valid scene"), mode, &mut fb)
                 .expect("renders");
@@ -471,8 +471,8 @@ fn rasterizer_survives_arbitrary_geometry() {
         r.set_file_mesh(m);
         for mode in [
             ShadingMode::Flat,
-            ShadingMode::Gouraud,
-            ShadingMode::Phong,
+            ShadingMode::PerVertex,
+            ShadingMode::PerPixel,
             ShadingMode::Exact,
         ] {
             let mut fb = Framebuffer::new(0, 0);

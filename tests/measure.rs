@@ -277,7 +277,7 @@ fn comparing_again_equals_a_full_render() {
     let mut edited = scene.clone();
     edited.difference.threshold = 2.5;
     edited.difference.pair = [
-        twinshade::ShadingMode::Gouraud,
+        twinshade::ShadingMode::PerVertex,
         twinshade::ShadingMode::Exact,
     ];
     assert!(edited.same_panels(&scene));

@@ -270,7 +270,7 @@ fn polygon_modes_cover_the_same_pixels_on_a_flat_grid() {
         bench
             .render(&scene.checked().expect("valid scene"))
             .expect("renders");
-        let fb = bench.framebuffer(twinshade::Panel::Gouraud);
+        let fb = bench.framebuffer(twinshade::Panel::PerVertex);
         covered.push((0..256 * 256).filter(|&i| fb.covered(i)).count());
         let want = if mode == PolygonMode::CentreFan {
             36

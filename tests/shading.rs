@@ -84,8 +84,8 @@ fn lambert_sphere_converges_per_pixel_and_per_vertex_errs_more() {
     let mut report = String::new();
     for level in 1..=5 {
         let scene = lambert_scene(level);
-        let (pm, px) = lambert_error(&scene, &render(&scene, ShadingMode::Phong));
-        let (gm, gx) = lambert_error(&scene, &render(&scene, ShadingMode::Gouraud));
+        let (pm, px) = lambert_error(&scene, &render(&scene, ShadingMode::PerPixel));
+        let (gm, gx) = lambert_error(&scene, &render(&scene, ShadingMode::PerVertex));
         report += &format!(
             "L{level}: phong mean {pm:.5} max {px:.5}; gouraud mean {gm:.5} max {gx:.5}\n"
         );
@@ -133,8 +133,8 @@ fn highlight_inside_a_coarse_triangle_shows_only_per_pixel() {
         let p = fb.rgba(x, y);
         0.2126 * f64::from(p[0]) + 0.7152 * f64::from(p[1]) + 0.0722 * f64::from(p[2])
     };
-    let phong = render(&s, ShadingMode::Phong);
-    let gouraud = render(&s, ShadingMode::Gouraud);
+    let phong = render(&s, ShadingMode::PerPixel);
+    let gouraud = render(&s, ShadingMode::PerVertex);
     let (w, h) = (phong.width(), phong.height());
     let peak = (0..w * h)
         .max_by(|&a, &b| luma(&phong, a % w, a / w).total_cmp(&luma(&phong, b % w, b / w)))
@@ -182,7 +182,11 @@ fn geometry_crossing_the_eye_plane_is_clipped() {
     };
     let mut r = Renderer::new();
     r.set_file_mesh(mesh);
-    for mode in [ShadingMode::Gouraud, ShadingMode::Phong, ShadingMode::Flat] {
+    for mode in [
+        ShadingMode::PerVertex,
+        ShadingMode::PerPixel,
+        ShadingMode::Flat,
+    ] {
         let mut fb = Framebuffer::new(0, 0);
         r.render(&s.checked().expect("valid scene"), mode, &mut fb)
             .expect("render");
@@ -241,7 +245,7 @@ fn exact_surface_reference_is_right_where_per_pixel_is_wrong() {
     // is off by about 5 codes on average (shared/REFERENCES.md, "Lambertian sphere, exact").
     let scene = lambert_scene(1);
     let (exact_mean, exact_max) = lambert_error(&scene, &render(&scene, ShadingMode::Exact));
-    let (phong_mean, _) = lambert_error(&scene, &render(&scene, ShadingMode::Phong));
+    let (phong_mean, _) = lambert_error(&scene, &render(&scene, ShadingMode::PerPixel));
     eprintln!(
         "L1: exact mean {exact_mean:.3} max {exact_max:.1}; phong mean {phong_mean:.3} codes"
     );

@@ -26,7 +26,7 @@ async function bench() {
   const viewer = new Viewer();
   const out = { impl: "twinshade-wasm", warm: WARM, frames: FRAMES, userAgent: navigator.userAgent, results: [] };
   for (const [level, w, h] of CONFIGS) {
-    viewer.loadBenchScene(level, w, h);
+    viewer.loadBenchmarkScene(level, w, h);
     const canvases = [0, 1].map(() => {
       const c = document.createElement("canvas");
       c.width = w;
@@ -59,7 +59,7 @@ async function bench() {
       level, w, h, tris: report.triangles,
       ...stats(total),
       render_only: stats(render),
-      covered_b: report.lighting.phong_pixels,
+      covered_b: report.lighting.per_pixel,
       ms: total.map((x) => +x.toFixed(2)),
     });
     $results.textContent = JSON.stringify(out, null, 1);

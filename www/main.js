@@ -278,8 +278,8 @@ function bindPresets() {
 
 function showStats() {
   const r = viewer.report();
-  readouts[0].textContent = `${fmt(r.lighting.gouraud_vertices)} lighting evaluations (vertices)`;
-  readouts[1].textContent = `${fmt(r.lighting.phong_pixels)} lighting evaluations (pixels)`;
+  readouts[0].textContent = `${fmt(r.lighting.per_vertex)} lighting evaluations (vertices)`;
+  readouts[1].textContent = `${fmt(r.lighting.per_pixel)} lighting evaluations (pixels)`;
   $("status").textContent =
     `${fmt(r.triangles)} triangles · panels ${r.width}×${r.height} px · ` +
     `frame ${lastFrameMs.toFixed(1)} ms (all panels and the comparison, CPU, WebAssembly)`;
@@ -309,7 +309,7 @@ function showMetrics() {
   term(dl, `Pixels above ${m.threshold_de00} dE00`, `${(100 * m.share_above_threshold).toFixed(1)} % of ${fmt(m.covered_pixels)}`, "share");
   term(dl, "Silhouette mismatch", `${fmt(m.silhouette_mismatch_pixels)} pixels`, "silhouette");
   term(dl, "Peak luminance Y", `${a} ${m.peak_luminance[0].toFixed(3)} · ${b} ${m.peak_luminance[1].toFixed(3)} (ratio ${m.peak_ratio.toFixed(2)})`, "peak");
-  term(dl, "Lighting evaluations", `${fmt(r.lighting.gouraud_vertices)} per-vertex · ${fmt(r.lighting.phong_pixels)} per-pixel`, "cost");
+  term(dl, "Lighting evaluations", `${fmt(r.lighting.per_vertex)} per-vertex · ${fmt(r.lighting.per_pixel)} per-pixel`, "cost");
 }
 
 let legendKey = "";

@@ -4,7 +4,7 @@
 //! It walks a ladder of ever finer versions of the mesh: a procedural shape's own resolution
 //! (icosphere level, rings and segments, grid cells), or subdivision levels of any other mesh
 //! (midpoint or PN triangles, [`crate::geometry::subdivide`]). At each rung a turntable sweep measures
-//! the Gouraud panel against the Phong panel at every sampled angle, so one lucky angle does
+//! the per-vertex panel against the per-pixel panel at every sampled angle, so one lucky angle does
 //! not decide; a rung passes when the 95th-percentile dE00 stays under the threshold at every
 //! angle. The advice is the first passing rung, with its cost in lighting evaluations (lit
 //! vertices per frame) beside the per-pixel path's (lit pixels per frame at the current view).
@@ -30,7 +30,7 @@ use serde::{Deserialize, Serialize};
 #[derive(Clone, Copy, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(default, deny_unknown_fields)]
 pub struct AdviceSettings {
-    /// The dE00 the Gouraud panel's 95th percentile must stay under (the difference view's
+    /// The dE00 the per-vertex panel's 95th percentile must stay under (the difference view's
     /// threshold by default: 1.0, common practice for "just noticeable").
     pub threshold: f32,
     /// Turntable steps per rung, 1..=360.
@@ -62,7 +62,7 @@ pub struct Rung {
     pub vertices: u64,
     /// Triangles drawn.
     pub triangles: u64,
-    /// Largest 95th-percentile dE00 (Gouraud against Phong) over the sampled angles.
+    /// Largest 95th-percentile dE00 (per-vertex against per-pixel) over the sampled angles.
     pub worst_p95: f64,
     /// The turntable angle of the worst step, degrees.
     pub worst_angle_deg: f32,
@@ -245,7 +245,7 @@ impl Advisor {
         // The threshold was checked above to lie in the range a scene allows.
         let base = scene
             .edit(|s| {
-                s.difference.pair = [ShadingMode::Gouraud, ShadingMode::Phong];
+                s.difference.pair = [ShadingMode::PerVertex, ShadingMode::PerPixel];
                 s.difference.threshold = settings.threshold;
             })
             .map_err(|e| AnalysisError::Settings(e.to_string()))?;
@@ -306,8 +306,8 @@ impl Advisor {
         }
         if !self.started {
             let r = *bench.render(&self.base)?;
-            self.advice.current_pixels = r.lighting.phong_pixels;
-            self.advice.current_vertices = r.lighting.gouraud_vertices;
+            self.advice.current_pixels = r.lighting.per_pixel;
+            self.advice.current_vertices = r.lighting.per_vertex;
             self.started = true;
             return Ok(true);
         }

@@ -8,12 +8,12 @@ use serde::Serialize;
 /// Lighting evaluations per frame of each path: the cost side of the comparison.
 #[derive(Clone, Copy, Debug, Default, PartialEq, Serialize)]
 pub struct LightingCost {
-    /// Gouraud: one evaluation per render vertex.
-    pub gouraud_vertices: u64,
-    /// Phong: one evaluation per shaded pixel.
-    pub phong_pixels: u64,
+    /// Per-vertex (Gouraud): one evaluation per render vertex.
+    pub per_vertex: u64,
+    /// Per-pixel (Phong): one evaluation per shaded pixel.
+    pub per_pixel: u64,
     /// Exact reference: one evaluation per shaded pixel (0 when not rendered).
-    pub exact_pixels: u64,
+    pub exact: u64,
 }
 
 /// What one frame of the workbench measured.
@@ -40,12 +40,12 @@ impl FrameReport {
         let header =
             "pair_a,pair_b,width,height,triangles,covered_pixels,silhouette_mismatch_pixels,\
 de00_mean,de00_p95,de00_max,de76_mean,de76_p95,de76_max,threshold_de00,share_above_threshold,\
-peak_luminance_a,peak_luminance_b,peak_ratio,lighting_gouraud_vertices,lighting_phong_pixels,\
-lighting_exact_pixels,link";
+peak_luminance_a,peak_luminance_b,peak_ratio,lighting_per_vertex,lighting_per_pixel,\
+lighting_exact,link";
         format!(
-            "{header}\n{:?},{:?},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{link}\n",
-            self.pair[0],
-            self.pair[1],
+            "{header}\n{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{link}\n",
+            self.pair[0].id(),
+            self.pair[1].id(),
             self.width,
             self.height,
             self.triangles,
@@ -62,21 +62,22 @@ lighting_exact_pixels,link";
             m.peak_luminance[0],
             m.peak_luminance[1],
             m.peak_ratio,
-            self.lighting.gouraud_vertices,
-            self.lighting.phong_pixels,
-            self.lighting.exact_pixels,
+            self.lighting.per_vertex,
+            self.lighting.per_pixel,
+            self.lighting.exact,
         )
     }
 }
 
-/// The panel labels of sheets: Gouraud, Phong and the difference.
+/// The panel labels of sheets: per-vertex, per-pixel and the difference.
 pub fn panel_labels(report: &FrameReport, scale_max: f32) -> [String; 3] {
     [
-        ShadingMode::Gouraud.label().to_string(),
-        ShadingMode::Phong.label().to_string(),
+        ShadingMode::PerVertex.label().to_string(),
+        ShadingMode::PerPixel.label().to_string(),
         format!(
-            "dE00 {:?} vs {:?} (0-{scale_max})",
-            report.pair[0], report.pair[1]
+            "dE00 {} vs {} (0-{scale_max})",
+            report.pair[0].short(),
+            report.pair[1].short()
         ),
     ]
 }
@@ -84,10 +85,10 @@ pub fn panel_labels(report: &FrameReport, scale_max: f32) -> [String; 3] {
 /// The workbench's panels.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum Panel {
-    /// Per-vertex lighting.
-    Gouraud,
-    /// Per-pixel lighting.
-    Phong,
+    /// Per-vertex lighting (Gouraud).
+    PerVertex,
+    /// Per-pixel lighting (Phong).
+    PerPixel,
     /// Exact-surface reference.
     Exact,
     /// The difference image of the compared pair.

@@ -37,7 +37,7 @@ pub fn sheet(panels: &[(&str, &Framebuffer)]) -> Image {
 /// Text lines summarising a frame report for sheets (ASCII).
 pub fn metrics_lines(report: &FrameReport) -> Vec<String> {
     let m = &report.metrics;
-    let name = |i: usize| format!("{:?}", report.pair[i]);
+    let name = |i: usize| report.pair[i].short();
     vec![
         format!(
             "{} vs {}: dE00 mean {:.2}  p95 {:.2}  max {:.2}   dE*ab mean {:.2}  p95 {:.2}  max {:.2}",
@@ -62,8 +62,8 @@ pub fn metrics_lines(report: &FrameReport) -> Vec<String> {
         ),
         format!(
             "Lighting evaluations per frame: {} per vertex vs {} per pixel ({} triangles, {}x{} px)",
-            report.lighting.gouraud_vertices,
-            report.lighting.phong_pixels,
+            report.lighting.per_vertex,
+            report.lighting.per_pixel,
             report.triangles,
             report.width,
             report.height
@@ -143,8 +143,8 @@ pub fn workbench_sheet(bench: &Workbench, scene: &Scene) -> Image {
     let report = bench.report();
     let labels = panel_labels(report, scene.difference.scale_max);
     let panels = [
-        (labels[0].as_str(), bench.framebuffer(Panel::Gouraud)),
-        (labels[1].as_str(), bench.framebuffer(Panel::Phong)),
+        (labels[0].as_str(), bench.framebuffer(Panel::PerVertex)),
+        (labels[1].as_str(), bench.framebuffer(Panel::PerPixel)),
         (labels[2].as_str(), bench.framebuffer(Panel::Difference)),
     ];
     report_sheet(

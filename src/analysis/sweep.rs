@@ -233,14 +233,14 @@ impl Sweep {
             step: i,
             angle_deg: self.angle(i),
             peak_luminance: [
-                peak_luminance(bench.framebuffer(Panel::Gouraud)),
-                peak_luminance(bench.framebuffer(Panel::Phong)),
+                peak_luminance(bench.framebuffer(Panel::PerVertex)),
+                peak_luminance(bench.framebuffer(Panel::PerPixel)),
             ],
             de00_mean: report.metrics.de00.mean,
             de00_p95: report.metrics.de00.p95,
             share_above_threshold: report.metrics.share_above_threshold,
-            lit_vertices: report.lighting.gouraud_vertices,
-            lit_pixels: report.lighting.phong_pixels,
+            lit_vertices: report.lighting.per_vertex,
+            lit_pixels: report.lighting.per_pixel,
             ..SweepStep::default()
         };
         if self.settings.axis == SweepAxis::Roll {
@@ -339,8 +339,8 @@ impl Sweep {
     /// The steps as CSV: a header line, then one line per step.
     pub fn to_csv(&self) -> String {
         let mut out = String::from(
-            "step,angle_deg,peak_luminance_gouraud,peak_luminance_phong,de00_mean,de00_p95,\
-share_above_threshold,probes_visible,probe_change_gouraud,probe_change_phong,lit_vertices,lit_pixels\n",
+            "step,angle_deg,peak_luminance_per_vertex,peak_luminance_per_pixel,de00_mean,de00_p95,\
+share_above_threshold,probes_visible,probe_change_per_vertex,probe_change_per_pixel,lit_vertices,lit_pixels\n",
         );
         for r in &self.records {
             out.push_str(&format!(
@@ -384,8 +384,8 @@ share_above_threshold,probes_visible,probe_change_gouraud,probe_change_phong,lit
                 "Highlight peak per panel",
                 "peak luminance Y",
                 vec![
-                    line("Gouraud", 0, &|r| r.peak_luminance[0]),
-                    line("Phong", 1, &|r| r.peak_luminance[1]),
+                    line("Per-vertex (Gouraud)", 0, &|r| r.peak_luminance[0]),
+                    line("Per-pixel (Phong)", 1, &|r| r.peak_luminance[1]),
                 ],
                 vec![],
             ),
@@ -405,8 +405,8 @@ share_above_threshold,probes_visible,probe_change_gouraud,probe_change_phong,lit
                 "Change at fixed surface points",
                 "largest change of Y",
                 vec![
-                    line("Gouraud", 0, &|r| r.probe_change[0]),
-                    line("Phong", 1, &|r| r.probe_change[1]),
+                    line("Per-vertex (Gouraud)", 0, &|r| r.probe_change[0]),
+                    line("Per-pixel (Phong)", 1, &|r| r.probe_change[1]),
                 ],
                 vec![Rule {
                     at: 1.0 / 255.0,

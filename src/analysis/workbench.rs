@@ -86,8 +86,8 @@ impl Workbench {
         } = self;
         // A valid scene never pairs the flat mode (Scene::validate refuses it).
         let pick = |mode: ShadingMode| match mode {
-            ShadingMode::Gouraud | ShadingMode::Flat => &*gouraud,
-            ShadingMode::Phong => &*phong,
+            ShadingMode::PerVertex | ShadingMode::Flat => &*gouraud,
+            ShadingMode::PerPixel => &*phong,
             ShadingMode::Exact => &*exact,
         };
         let (fa, fb) = (pick(pair[0]), pick(pair[1]));
@@ -109,9 +109,9 @@ impl Workbench {
             pair,
             metrics,
             lighting: LightingCost {
-                gouraud_vertices: self.stats[0].lit_vertices,
-                phong_pixels: self.stats[1].fragments,
-                exact_pixels: self.stats[2].fragments,
+                per_vertex: self.stats[0].lit_vertices,
+                per_pixel: self.stats[1].fragments,
+                exact: self.stats[2].fragments,
             },
         };
         Ok(&self.report)
@@ -160,8 +160,8 @@ impl Workbench {
 
     fn panel_of(&self, mode: ShadingMode) -> Option<usize> {
         match mode {
-            ShadingMode::Gouraud => Some(0),
-            ShadingMode::Phong => Some(1),
+            ShadingMode::PerVertex => Some(0),
+            ShadingMode::PerPixel => Some(1),
             ShadingMode::Exact => Some(2),
             ShadingMode::Flat => None,
         }
@@ -183,8 +183,8 @@ impl Workbench {
     /// A rendered panel: Gouraud, Phong, exact (if rendered), or the difference image.
     pub fn framebuffer(&self, which: Panel) -> &Framebuffer {
         match which {
-            Panel::Gouraud => &self.gouraud,
-            Panel::Phong => &self.phong,
+            Panel::PerVertex => &self.gouraud,
+            Panel::PerPixel => &self.phong,
             Panel::Exact => &self.exact,
             Panel::Difference => &self.difference,
         }

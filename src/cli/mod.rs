@@ -77,7 +77,7 @@ enum Command {
         summary: Option<PathBuf>,
     },
     /// Find how much tessellation per-vertex lighting needs: finer and finer versions of the
-    /// mesh, each swept on a turntable, until Gouraud stays within the threshold of Phong.
+    /// mesh, each swept on a turntable, until per-vertex lighting stays within the threshold of per-pixel lighting.
     Advise {
         #[command(flatten)]
         input: SceneArgs,
@@ -481,11 +481,11 @@ fn sweep(
     }
     let s = sweep.summary();
     println!(
-        "highlight stability (CoV of the peak): Gouraud {:.4}, Phong {:.4}",
+        "highlight stability (CoV of the peak): per-vertex {:.4}, per-pixel {:.4}",
         s.highlight_cov[0], s.highlight_cov[1]
     );
     println!(
-        "peak luminance: Gouraud {:.4}..{:.4}, Phong {:.4}..{:.4}",
+        "peak luminance: per-vertex {:.4}..{:.4}, per-pixel {:.4}..{:.4}",
         s.peak_min[0], s.peak_max[0], s.peak_min[1], s.peak_max[1]
     );
     println!(
@@ -494,7 +494,7 @@ fn sweep(
     );
     if let Some(v) = s.orientation_variance {
         println!(
-            "orientation variance (largest change of Y at a fixed point, {} probes): Gouraud {:.5}, Phong {:.5}",
+            "orientation variance (largest change of Y at a fixed point, {} probes): per-vertex {:.5}, per-pixel {:.5}",
             s.probes_tracked, v[0], v[1]
         );
     }
@@ -612,8 +612,8 @@ fn render(
         .map_err(|e| format!("cannot create {}: {e}", out_dir.display()))?;
     let report = *bench.render(&scene).map_err(|e| e.to_string())?;
     for (panel, name) in [
-        (Panel::Gouraud, "gouraud.png"),
-        (Panel::Phong, "phong.png"),
+        (Panel::PerVertex, "gouraud.png"),
+        (Panel::PerPixel, "phong.png"),
         (Panel::Difference, "difference.png"),
     ] {
         let fb = bench.framebuffer(panel);
@@ -636,8 +636,8 @@ fn render(
         m.covered_pixels,
         m.threshold_de00,
         m.silhouette_mismatch_pixels,
-        report.lighting.gouraud_vertices,
-        report.lighting.phong_pixels
+        report.lighting.per_vertex,
+        report.lighting.per_pixel
     );
     if let Some(path) = metrics {
         write_json(

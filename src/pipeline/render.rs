@@ -314,7 +314,7 @@ impl Renderer {
         fb: &mut Framebuffer,
     ) -> Result<PanelStats, PrepareError> {
         let f = self.begin(scene, &mut [&mut *fb])?;
-        if mode == ShadingMode::Gouraud {
+        if mode == ShadingMode::PerVertex {
             self.light_vertices(&f.lighting);
         }
         let Frame {
@@ -353,7 +353,7 @@ impl Renderer {
         };
         let mode =
             if mode == ShadingMode::Exact && !geo.shape.is_some_and(|s| s.has_exact_surface()) {
-                ShadingMode::Phong
+                ShadingMode::PerPixel
             } else {
                 mode
             };
@@ -382,7 +382,7 @@ impl Renderer {
                 let faces = &self.face_color;
                 ctx.draw(&mut target, persp, |_| [], |f| Constant(faces[f]))
             }
-            ShadingMode::Gouraud => {
+            ShadingMode::PerVertex => {
                 stats.lit_vertices = self.vertex_color.len() as u64;
                 let colors = &self.vertex_color;
                 let shader = VertexColor { enc };
@@ -393,7 +393,7 @@ impl Renderer {
                     |_| shader,
                 )
             }
-            ShadingMode::Phong => {
+            ShadingMode::PerPixel => {
                 let (n, p) = (self.stage.world_nrm(), self.stage.world_pos());
                 let shader = PerPixel {
                     lighting: &lighting,

@@ -528,7 +528,7 @@ impl Scene {
     /// a white directional light along (1, 1, 1) and a 0.8 grey point light at (2, 1, 2)
     /// falling off as 1 / (1 + 0.1 d^2), a dark red base, black background, turned `frame`
     /// degrees about +y. (The base colour is the sRGB code nearest to linear (0.6, 0.1, 0.1).)
-    pub fn bench(level: u32, width: u32, height: u32, frame: u32) -> Scene {
+    pub fn benchmark(level: u32, width: u32, height: u32, frame: u32) -> Scene {
         let mut s = Scene {
             mesh: MeshSource::Shape(Shape::Icosphere { level }),
             panel: PanelSize { width, height },

@@ -76,28 +76,61 @@ impl Default for PanelSize {
 }
 
 /// Where lighting is computed.
+///
+/// In JSON: `flat`, `per_vertex`, `per_pixel`, `exact`; `gouraud` and `phong`, the names of
+/// earlier builds, are still read.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Hash, Default)]
-#[serde(rename_all = "lowercase")]
+#[serde(rename_all = "snake_case")]
 pub enum ShadingMode {
     /// One colour per face.
     Flat,
-    /// Per vertex, colours interpolated.
-    Gouraud,
-    /// Per pixel, normals interpolated.
+    /// Per vertex (Gouraud shading): lit at the vertices, colours interpolated.
+    #[serde(alias = "gouraud")]
+    PerVertex,
+    /// Per pixel (Phong shading): normals interpolated, lit at every pixel.
     #[default]
-    Phong,
-    /// Per pixel with the analytic surface's true normal.
+    #[serde(alias = "phong")]
+    PerPixel,
+    /// Per pixel with the analytic surface's true normal (the reference).
     Exact,
 }
 
 impl ShadingMode {
+    /// Every mode, in the order above.
+    pub const ALL: [ShadingMode; 4] = [
+        ShadingMode::Flat,
+        ShadingMode::PerVertex,
+        ShadingMode::PerPixel,
+        ShadingMode::Exact,
+    ];
+
     /// A label for the panel.
     pub fn label(self) -> &'static str {
         match self {
             ShadingMode::Flat => "Flat (per face)",
-            ShadingMode::Gouraud => "Gouraud (per vertex)",
-            ShadingMode::Phong => "Phong (per pixel)",
+            ShadingMode::PerVertex => "Per-vertex (Gouraud)",
+            ShadingMode::PerPixel => "Per-pixel (Phong)",
             ShadingMode::Exact => "Exact surface (reference)",
+        }
+    }
+
+    /// The name in JSON, CSV and file names: `flat`, `per_vertex`, `per_pixel`, `exact`.
+    pub fn id(self) -> &'static str {
+        match self {
+            ShadingMode::Flat => "flat",
+            ShadingMode::PerVertex => "per_vertex",
+            ShadingMode::PerPixel => "per_pixel",
+            ShadingMode::Exact => "exact",
+        }
+    }
+
+    /// A short name for running text: "flat", "per-vertex", "per-pixel", "exact".
+    pub fn short(self) -> &'static str {
+        match self {
+            ShadingMode::Flat => "flat",
+            ShadingMode::PerVertex => "per-vertex",
+            ShadingMode::PerPixel => "per-pixel",
+            ShadingMode::Exact => "exact",
         }
     }
 }
@@ -106,7 +139,7 @@ impl ShadingMode {
 #[derive(Clone, Copy, Debug, PartialEq, Serialize, Deserialize)]
 #[serde(default, deny_unknown_fields)]
 pub struct DifferenceSettings {
-    /// The two shadings compared (A, B); any two of Gouraud, Phong and exact.
+    /// The two shadings compared (A, B); any two of per-vertex, per-pixel and exact.
     pub pair: [ShadingMode; 2],
     /// The "just noticeable" threshold in dE00 (1.0 by common practice).
     pub threshold: f32,
@@ -117,7 +150,7 @@ pub struct DifferenceSettings {
 impl Default for DifferenceSettings {
     fn default() -> Self {
         DifferenceSettings {
-            pair: [ShadingMode::Gouraud, ShadingMode::Phong],
+            pair: [ShadingMode::PerVertex, ShadingMode::PerPixel],
             threshold: 1.0,
             scale_max: 5.0,
         }
