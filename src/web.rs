@@ -9,24 +9,49 @@
 use crate::analysis::advisor::{AdviceSettings, Advisor};
 use crate::analysis::measure::Comparer;
 use crate::analysis::report::Panel;
-use crate::analysis::sweep::{Sweep, SweepAxis, SweepMetric, SweepSettings};
+use crate::analysis::sweep::{Sweep, SweepAxis, SweepMetric, SweepSettings, MAX_STEPS};
 use crate::analysis::workbench::Workbench;
-use crate::geometry::subdivide::SubdivisionMethod;
+use crate::geometry::shapes::{DetailControl, Shape};
+use crate::geometry::subdivide::{SubdivisionMethod, MAX_LEVELS};
 use crate::scene::definition::{Scene, ValidScene};
-use crate::scene::settings::MeshSource;
+use crate::scene::settings::{MeshSource, ShadingMode, MAX_PANEL_SIDE};
 use wasm_bindgen::prelude::*;
 
 fn js_error(msg: impl std::fmt::Display) -> JsValue {
     js_sys::Error::new(&msg.to_string()).into()
 }
 
-/// The panels in the order `panel_ptr` numbers them.
-const PANELS: [Panel; 4] = [
-    Panel::PerVertex,
-    Panel::PerPixel,
-    Panel::Difference,
-    Panel::Exact,
+/// The panels in the order `panel_ptr` numbers them, with the names the page uses for them
+/// (its canvases' `data-panel`).
+const PANELS: [(Panel, &str); 4] = [
+    (Panel::PerVertex, "per_vertex"),
+    (Panel::PerPixel, "per_pixel"),
+    (Panel::Difference, "difference"),
+    (Panel::Exact, "exact"),
 ];
+
+/// A choice named by the page (`"roll"`, `"de00"`, ...) as the enum whose serde name it is;
+/// an unknown name is an error naming `what`.
+fn choice<T: serde::de::DeserializeOwned>(what: &str, name: &str) -> Result<T, JsValue> {
+    serde_json::from_value(serde_json::Value::String(name.to_string()))
+        .map_err(|_| js_error(format!("no {what} '{name}'")))
+}
+
+/// The serde names of enum values, for the page's lists.
+fn names<T: serde::Serialize>(values: &[T]) -> Vec<String> {
+    values
+        .iter()
+        .filter_map(|v| match serde_json::to_value(v) {
+            Ok(serde_json::Value::String(s)) => Some(s),
+            _ => None,
+        })
+        .collect()
+}
+
+fn to_js(value: &impl serde::Serialize) -> Result<JsValue, JsValue> {
+    let ser = serde_wasm_bindgen::Serializer::json_compatible();
+    value.serialize(&ser).map_err(js_error)
+}
 
 /// The page's renderer: the scene and the workbench that renders and compares its panels.
 #[wasm_bindgen]
@@ -67,6 +92,74 @@ impl Viewer {
             advisor: None,
             panels_fresh: false,
         }
+    }
+
+    /// The facts the page builds its controls from, so it repeats none of them: panel names
+    /// in `panelPtr` order, shading modes (`id`, `label`, `short`), the shapes' detail
+    /// controls, sweep axes and plot metrics, subdivision methods and levels, the largest
+    /// panel side and sweep length.
+    pub fn vocabulary() -> Result<JsValue, JsValue> {
+        #[derive(serde::Serialize)]
+        struct Mode {
+            id: &'static str,
+            label: &'static str,
+            short: &'static str,
+        }
+        #[derive(serde::Serialize)]
+        struct Vocabulary {
+            panels: Vec<&'static str>,
+            modes: Vec<Mode>,
+            shapes: [DetailControl; 6],
+            sweep_axes: Vec<String>,
+            sweep_metrics: Vec<String>,
+            subdivision_methods: Vec<String>,
+            subdivision_max_levels: u32,
+            max_panel_side: u32,
+            max_sweep_steps: u32,
+        }
+        to_js(&Vocabulary {
+            panels: PANELS.iter().map(|p| p.1).collect(),
+            modes: ShadingMode::ALL
+                .iter()
+                .map(|m| Mode {
+                    id: m.id(),
+                    label: m.label(),
+                    short: m.short(),
+                })
+                .collect(),
+            shapes: Shape::DETAIL,
+            sweep_axes: names(&[SweepAxis::Turntable, SweepAxis::Roll]),
+            sweep_metrics: names(&[
+                SweepMetric::PeakLuminance,
+                SweepMetric::De00,
+                SweepMetric::ProbeChange,
+            ]),
+            subdivision_methods: names(&[
+                SubdivisionMethod::Midpoint,
+                SubdivisionMethod::PnTriangles,
+            ]),
+            subdivision_max_levels: MAX_LEVELS,
+            max_panel_side: MAX_PANEL_SIDE,
+            max_sweep_steps: MAX_STEPS,
+        })
+    }
+
+    /// The shape of `kind` at `detail` (see `Shape::from_detail`) as a scene JSON object.
+    #[wasm_bindgen(js_name = shapeFromDetail)]
+    pub fn shape_from_detail(kind: &str, detail: u32) -> Result<JsValue, JsValue> {
+        let shape = Shape::from_detail(kind, detail)
+            .ok_or_else(|| js_error(format!("no shape '{kind}'")))?;
+        to_js(&shape)
+    }
+
+    /// The detail value of a shape object and its text, `[value, text]`.
+    #[wasm_bindgen(js_name = shapeDetail)]
+    pub fn shape_detail(shape: JsValue) -> Result<Vec<JsValue>, JsValue> {
+        let shape: Shape = serde_wasm_bindgen::from_value(shape).map_err(js_error)?;
+        Ok(vec![
+            JsValue::from(shape.detail()),
+            JsValue::from(shape.detail_text()),
+        ])
     }
 
     /// The built-in default scene as JSON.
@@ -246,7 +339,7 @@ impl Viewer {
     /// 3 exact reference (drawn only when the difference view compares against it).
     #[wasm_bindgen(js_name = panelPtr)]
     pub fn panel_ptr(&self, i: usize) -> *const u8 {
-        PANELS.get(i).map_or(std::ptr::null(), |p| {
+        PANELS.get(i).map_or(std::ptr::null(), |(p, _)| {
             self.bench.framebuffer(*p).bytes().as_ptr()
         })
     }
@@ -256,7 +349,7 @@ impl Viewer {
     pub fn panel_len(&self, i: usize) -> usize {
         PANELS
             .get(i)
-            .map_or(0, |p| self.bench.framebuffer(*p).bytes().len())
+            .map_or(0, |(p, _)| self.bench.framebuffer(*p).bytes().len())
     }
 
     /// The colours of pixel (x, y) in the compared pair, their CIELAB and dE00/dE*ab, or
@@ -333,11 +426,7 @@ impl Viewer {
     /// spaced over a full turn. Replaces any earlier sweep.
     #[wasm_bindgen(js_name = startSweep)]
     pub fn start_sweep(&mut self, axis: &str, steps: u32) -> Result<(), JsValue> {
-        let axis = match axis {
-            "turntable" => SweepAxis::Turntable,
-            "roll" => SweepAxis::Roll,
-            other => return Err(js_error(format!("no sweep axis '{other}'"))),
-        };
+        let axis: SweepAxis = choice("sweep axis", axis)?;
         let settings = SweepSettings {
             axis,
             steps,
@@ -376,16 +465,18 @@ impl Viewer {
     /// The sweep's plot as SVG: `metric` "peak_luminance", "de00" or "probe_change",
     /// `current` the step to mark (negative: none). Empty without a sweep.
     #[wasm_bindgen(js_name = sweepPlot)]
-    pub fn sweep_plot(&self, metric: &str, width: u32, height: u32, current: i32) -> String {
-        let metric = match metric {
-            "de00" => SweepMetric::De00,
-            "probe_change" => SweepMetric::ProbeChange,
-            _ => SweepMetric::PeakLuminance,
-        };
-        self.sweep.as_ref().map_or_else(String::new, |s| {
+    pub fn sweep_plot(
+        &self,
+        metric: &str,
+        width: u32,
+        height: u32,
+        current: i32,
+    ) -> Result<String, JsValue> {
+        let metric: SweepMetric = choice("sweep plot", metric)?;
+        Ok(self.sweep.as_ref().map_or_else(String::new, |s| {
             s.plot(metric, u32::try_from(current).ok())
                 .to_svg(width, height)
-        })
+        }))
     }
 
     /// The sweep's summary (highlight stability, orientation variance) as an object.
@@ -425,11 +516,7 @@ impl Viewer {
     /// threshold is the difference view's.
     #[wasm_bindgen(js_name = startAdvice)]
     pub fn start_advice(&mut self, steps: u32, method: &str) -> Result<(), JsValue> {
-        let method = match method {
-            "midpoint" => SubdivisionMethod::Midpoint,
-            "pn_triangles" => SubdivisionMethod::PnTriangles,
-            other => return Err(js_error(format!("no subdivision method '{other}'"))),
-        };
+        let method: SubdivisionMethod = choice("subdivision method", method)?;
         let settings = AdviceSettings {
             threshold: self.scene.difference.threshold,
             steps,

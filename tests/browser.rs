@@ -167,8 +167,8 @@ async fn native_render(c: &Client) -> (ValidScene, Workbench) {
 async fn assert_same_as_native(c: &Client, when: &str) {
     let (scene, bench) = native_render(c).await;
     for (name, panel) in [
-        ("gouraud", Panel::PerVertex),
-        ("phong", Panel::PerPixel),
+        ("per_vertex", Panel::PerVertex),
+        ("per_pixel", Panel::PerPixel),
         ("difference", Panel::Difference),
     ] {
         let (w, h, page) = canvas(c, name).await;
@@ -229,8 +229,8 @@ async fn page_end_to_end() {
     assert_eq!(errors, json!([]), "console errors on load");
 
     // Both panels are drawn at the requested size, and differ where the highlight is.
-    let (w, h, gouraud) = canvas(&c, "gouraud").await;
-    let (_, _, phong) = canvas(&c, "phong").await;
+    let (w, h, gouraud) = canvas(&c, "per_vertex").await;
+    let (_, _, phong) = canvas(&c, "per_pixel").await;
     assert_eq!((w, h), PANEL);
     let bg = &gouraud[0..4];
     let covered = gouraud.chunks_exact(4).filter(|p| *p != bg).count();
@@ -278,7 +278,7 @@ async fn page_end_to_end() {
 
     // A click (no drag) probes a pixel; its dE00 is the native one for that pixel.
     let phong_el = c
-        .find(Locator::Css("canvas[data-panel=\"phong\"]"))
+        .find(Locator::Css("canvas[data-panel=\"per_pixel\"]"))
         .await
         .expect("phong canvas");
     let click = MouseActions::new("mouse".into())
@@ -318,7 +318,7 @@ async fn page_end_to_end() {
 
     // A drag turns the mesh.
     let canvas_el = c
-        .find(Locator::Css("canvas[data-panel=\"phong\"]"))
+        .find(Locator::Css("canvas[data-panel=\"per_pixel\"]"))
         .await
         .expect("phong canvas");
     let drag = MouseActions::new("mouse".into())
@@ -340,7 +340,7 @@ async fn page_end_to_end() {
             button: MOUSE_BUTTON_LEFT,
         });
     c.perform_actions(drag).await.expect("drag");
-    let after_drag = wait_changed(&c, "phong", &phong, "a drag").await;
+    let after_drag = wait_changed(&c, "per_pixel", &phong, "a drag").await;
 
     // A control change re-renders (reflection model), through a real selection.
     c.find(Locator::Css("#model"))
@@ -349,7 +349,13 @@ async fn page_end_to_end() {
         .select_by_value("phong")
         .await
         .expect("select Phong model");
-    wait_changed(&c, "phong", &after_drag, "changing the reflection model").await;
+    wait_changed(
+        &c,
+        "per_pixel",
+        &after_drag,
+        "changing the reflection model",
+    )
+    .await;
 
     // After turning and editing, the pixels are still the native ones.
     assert_same_as_native(&c, "after a drag and a control change").await;
@@ -384,7 +390,10 @@ async fn page_end_to_end() {
     );
 
     // The address carries the scene: opened in a fresh page it gives the same pixels.
-    let before: Vec<Vec<u8>> = vec![canvas(&c, "gouraud").await.2, canvas(&c, "phong").await.2];
+    let before: Vec<Vec<u8>> = vec![
+        canvas(&c, "per_vertex").await.2,
+        canvas(&c, "per_pixel").await.2,
+    ];
     let href = eval(&c, "return location.href").await;
     let href = href.as_str().expect("href").to_string();
     assert!(
@@ -394,7 +403,7 @@ async fn page_end_to_end() {
     c.goto("about:blank").await.expect("leave");
     c.goto(&href).await.expect("open the link");
     wait_ready(&c).await;
-    for (i, name) in ["gouraud", "phong"].iter().enumerate() {
+    for (i, name) in ["per_vertex", "per_pixel"].iter().enumerate() {
         assert!(
             canvas(&c, name).await.2 == before[i],
             "{name}: the link does not reproduce the pixels"
@@ -514,14 +523,14 @@ async fn page_end_to_end() {
     .expect("write a mesh");
     let broken = dir.join("broken.obj");
     std::fs::write(&broken, "v 0 0 0\nv 1 0 0\nv 0 1 0\nf 1 2 7\n").expect("write a broken mesh");
-    let before_mesh = canvas(&c, "phong").await.2;
+    let before_mesh = canvas(&c, "per_pixel").await.2;
     c.find(Locator::Css("#mesh-file"))
         .await
         .expect("file picker")
         .send_keys(&good.display().to_string())
         .await
         .expect("pick a file");
-    let with_mesh = wait_changed(&c, "phong", &before_mesh, "picking a mesh file").await;
+    let with_mesh = wait_changed(&c, "per_pixel", &before_mesh, "picking a mesh file").await;
     let info = eval(
         &c,
         "return document.getElementById('mesh-info').textContent",
@@ -558,7 +567,7 @@ async fn page_end_to_end() {
     );
     tokio::time::sleep(Duration::from_millis(200)).await;
     assert!(
-        canvas(&c, "phong").await.2 == with_mesh,
+        canvas(&c, "per_pixel").await.2 == with_mesh,
         "the previous image stays"
     );
     let _ = std::fs::remove_dir_all(&dir);
@@ -646,14 +655,14 @@ async fn page_end_to_end() {
     )
     .await;
     assert_eq!(picks, json!(12), "the plot has a pick band per step");
-    let (_, _, shown) = canvas(&c, "gouraud").await;
+    let (_, _, shown) = canvas(&c, "per_vertex").await;
     c.find(Locator::Css("#sweep-plot svg rect[data-pick=\"3\"]"))
         .await
         .expect("plot band of step 3")
         .click()
         .await
         .expect("click the plot");
-    wait_changed(&c, "gouraud", &shown, "clicking the plot").await;
+    wait_changed(&c, "per_vertex", &shown, "clicking the plot").await;
     let (after, _) = native_render(&c).await;
     assert_eq!(
         after.camera.roll_deg,
@@ -723,7 +732,7 @@ async fn page_end_to_end() {
         )),
         "the answer names the advised level: {answer}"
     );
-    let (_, _, shown) = canvas(&c, "gouraud").await;
+    let (_, _, shown) = canvas(&c, "per_vertex").await;
     // The topmost marker of the advised level (the "advised level" series is drawn last).
     c.find(Locator::XPath(&format!(
         "(//*[@id='advice-plot']//*[local-name()='circle' and @data-pick='{advised}'])[last()]"
@@ -733,7 +742,7 @@ async fn page_end_to_end() {
     .click()
     .await
     .expect("click the advised point");
-    wait_changed(&c, "gouraud", &shown, "picking a level").await;
+    wait_changed(&c, "per_vertex", &shown, "picking a level").await;
     let (picked, _) = native_render(&c).await;
     assert_eq!(
         as_f64(serde_json::to_value(&picked.mesh).expect("mesh")),

@@ -1,8 +1,18 @@
-//! A static file server for the page on 127.0.0.1, through `tiny_http`.
+//! A static file server for the page on 127.0.0.1, through `hyper` on a one-thread `tokio`
+//! runtime: each connection is its own task, so connections a browser opens ahead of time
+//! (and keeps idle) never hold up the others. (The `tiny_http` server used before queued a
+//! new connection behind busy pool threads now and then, and a page of a dozen modules then
+//! never finished loading.)
 
+use http_body_util::Full;
+use hyper::body::Bytes;
+use hyper::{Request, Response, StatusCode};
+use hyper_util::rt::TokioIo;
+use std::convert::Infallible;
 use std::io::ErrorKind;
 use std::net::TcpListener;
 use std::path::{Component, Path, PathBuf};
+use std::sync::Arc;
 
 /// How many ports after a busy one are tried.
 const PORT_TRIES: u16 = 20;
@@ -15,14 +25,43 @@ const PORT_TRIES: u16 = 20;
 pub fn serve(root: &Path, port: u16, ready: impl FnOnce(&str)) -> Result<(), String> {
     let listener = bind(port)?;
     let addr = listener.local_addr().map_err(|e| e.to_string())?;
-    let server = tiny_http::Server::from_listener(listener, None)
+    listener
+        .set_nonblocking(true)
         .map_err(|e| format!("cannot start the server: {e}"))?;
-    ready(&format!("http://{addr}/"));
-    for request in server.incoming_requests() {
-        let response = respond(root, request.url());
-        let _ = request.respond(response);
-    }
-    Ok(())
+    let runtime = tokio::runtime::Builder::new_current_thread()
+        .enable_io()
+        .enable_time()
+        .build()
+        .map_err(|e| format!("cannot start the server: {e}"))?;
+    let root = Arc::new(root.to_path_buf());
+    runtime.block_on(async move {
+        let listener = tokio::net::TcpListener::from_std(listener)
+            .map_err(|e| format!("cannot start the server: {e}"))?;
+        ready(&format!("http://{addr}/"));
+        loop {
+            let stream = match listener.accept().await {
+                Ok((stream, _)) => stream,
+                Err(_) => {
+                    // Out of file descriptors or a connection reset before accept: wait a
+                    // moment rather than spin.
+                    tokio::time::sleep(std::time::Duration::from_millis(50)).await;
+                    continue;
+                }
+            };
+            let root = Arc::clone(&root);
+            tokio::spawn(async move {
+                let service =
+                    hyper::service::service_fn(move |req: Request<hyper::body::Incoming>| {
+                        let reply = respond(&root, req.uri().path());
+                        async move { Ok::<_, Infallible>(reply) }
+                    });
+                // A connection that fails (the browser went away) ends only itself.
+                let _ = hyper::server::conn::http1::Builder::new()
+                    .serve_connection(TokioIo::new(stream), service)
+                    .await;
+            });
+        }
+    })
 }
 
 fn bind(port: u16) -> Result<TcpListener, String> {
@@ -63,14 +102,17 @@ fn resolve(root: &Path, url: &str) -> Option<PathBuf> {
     Some(out)
 }
 
-type Reply = tiny_http::Response<std::io::Cursor<Vec<u8>>>;
+type Reply = Response<Full<Bytes>>;
+
+fn plain(status: StatusCode, text: &'static str) -> Reply {
+    let mut r = Response::new(Full::new(Bytes::from_static(text.as_bytes())));
+    *r.status_mut() = status;
+    r
+}
 
 fn respond(root: &Path, url: &str) -> Reply {
-    let header = |k: &str, v: &str| {
-        tiny_http::Header::from_bytes(k.as_bytes(), v.as_bytes()).expect("static header is valid")
-    };
     let Some(path) = resolve(root, url) else {
-        return tiny_http::Response::from_string("bad path").with_status_code(400);
+        return plain(StatusCode::BAD_REQUEST, "bad path");
     };
     match std::fs::read(&path) {
         Ok(bytes) => {
@@ -82,10 +124,17 @@ fn respond(root: &Path, url: &str) -> Reply {
                     .essence_str()
                     .to_string(),
             };
-            tiny_http::Response::from_data(bytes)
-                .with_header(header("Content-Type", &mime))
-                .with_header(header("Cache-Control", "no-store"))
+            let mut r = Response::new(Full::new(Bytes::from(bytes)));
+            let h = r.headers_mut();
+            if let Ok(v) = mime.parse() {
+                h.insert(hyper::header::CONTENT_TYPE, v);
+            }
+            h.insert(
+                hyper::header::CACHE_CONTROL,
+                hyper::header::HeaderValue::from_static("no-store"),
+            );
+            r
         }
-        Err(_) => tiny_http::Response::from_string("not found").with_status_code(404),
+        Err(_) => plain(StatusCode::NOT_FOUND, "not found"),
     }
 }

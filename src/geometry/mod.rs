@@ -15,6 +15,6 @@ pub use import::{
 };
 pub use mesh::{polygon_area_vector, Corner, Mesh, MeshError, MAX_TRIANGLES, NO_NORMAL};
 pub use normals::{compute_normals, NormalWeighting};
-pub use shapes::Shape;
+pub use shapes::{DetailControl, Shape};
 pub use subdivide::{subdivide, triangles_after, Subdivision, SubdivisionMethod, MAX_LEVELS};
 pub use vertex_buffer::{PolygonMode, VertexBuffer, MAX_CORNERS};

@@ -54,6 +54,119 @@ impl Default for Shape {
     }
 }
 
+/// The page's one resolution control ("detail") for a kind of shape: its label, its range and
+/// where it starts. [`Shape::from_detail`] turns a detail value into the shape's parameters.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+pub struct DetailControl {
+    /// The shape's `kind` in scene JSON.
+    pub kind: &'static str,
+    /// The shape's name on the page.
+    pub label: &'static str,
+    /// Smallest detail.
+    pub min: u32,
+    /// Largest detail.
+    pub max: u32,
+    /// Detail when the shape is picked.
+    pub default: u32,
+}
+
+impl Shape {
+    /// One detail control per kind of shape, in the order the page lists them.
+    pub const DETAIL: [DetailControl; 6] = [
+        DetailControl {
+            kind: "icosphere",
+            label: "Geodesic sphere",
+            min: 0,
+            max: 7,
+            default: 2,
+        },
+        DetailControl {
+            kind: "uv_sphere",
+            label: "Latitude-longitude sphere",
+            min: 2,
+            max: 64,
+            default: 8,
+        },
+        DetailControl {
+            kind: "torus",
+            label: "Torus",
+            min: 3,
+            max: 96,
+            default: 10,
+        },
+        DetailControl {
+            kind: "vase",
+            label: "Vase (surface of revolution)",
+            min: 2,
+            max: 96,
+            default: 10,
+        },
+        DetailControl {
+            kind: "quad_grid",
+            label: "Quad grid (height field)",
+            min: 1,
+            max: 64,
+            default: 6,
+        },
+        DetailControl {
+            kind: "cube",
+            label: "Cube (hard edges)",
+            min: 0,
+            max: 0,
+            default: 0,
+        },
+    ];
+
+    /// The shape of `kind` at `detail` (clamped to the kind's range): an icosphere's level;
+    /// `d` rings and `2d` segments for the latitude-longitude sphere and the vase; `2d`
+    /// rings and `d` segments for the torus; `d` x `d` cells for the quad grid.
+    pub fn from_detail(kind: &str, detail: u32) -> Option<Shape> {
+        let c = Shape::DETAIL.iter().find(|c| c.kind == kind)?;
+        let d = detail.clamp(c.min, c.max);
+        Some(match kind {
+            "icosphere" => Shape::Icosphere { level: d },
+            "uv_sphere" => Shape::UvSphere {
+                rings: d,
+                segments: 2 * d,
+            },
+            "torus" => Shape::Torus {
+                rings: 2 * d,
+                segments: d,
+            },
+            "vase" => Shape::Vase {
+                rings: d,
+                segments: 2 * d,
+            },
+            "quad_grid" => Shape::QuadGrid { cells: d },
+            _ => Shape::Cube,
+        })
+    }
+
+    /// The detail value that [`Shape::from_detail`] would map to this shape (for shapes made
+    /// otherwise, the parameter the control moves).
+    pub fn detail(&self) -> u32 {
+        match *self {
+            Shape::Icosphere { level } => level,
+            Shape::UvSphere { rings, .. } | Shape::Vase { rings, .. } => rings,
+            Shape::Torus { segments, .. } => segments,
+            Shape::QuadGrid { cells } => cells,
+            Shape::Cube => 0,
+        }
+    }
+
+    /// The resolution in words, as the page shows it beside the control.
+    pub fn detail_text(&self) -> String {
+        match *self {
+            Shape::Icosphere { level } => format!("level {level}"),
+            Shape::UvSphere { rings, segments }
+            | Shape::Vase { rings, segments }
+            | Shape::Torus { rings, segments } => format!("{rings} × {segments}"),
+            Shape::QuadGrid { cells } => format!("{cells} × {cells} quads"),
+            Shape::Cube => "fixed".into(),
+        }
+    }
+}
+
 /// Torus radii.
 const TORUS_R: f64 = 0.7;
 const TORUS_T: f64 = 0.3;

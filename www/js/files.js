@@ -1,0 +1,79 @@
+// Files in and out, all inside the page: mesh files picked, dropped or hosted beside the page
+// (same site only), and the exports (report sheet PNG, metrics JSON and CSV).
+import { app, $, fmt, showProblem, says, download, jsonBlob } from "./state.js";
+import { requestRender } from "./loop.js";
+import { syncControls } from "./controls.js";
+import { leavePreset } from "./presets.js";
+
+/** Imports a mesh file's bytes; a broken file is explained and the previous scene stays. */
+export function loadMeshBytes(name, bytes) {
+  try {
+    const info = app.viewer.loadMesh(name, new Uint8Array(bytes));
+    showProblem("");
+    $("mesh-info").textContent =
+      `${info.name}: ${fmt(info.vertices)} vertices, ${fmt(info.faces)} faces, ` +
+      `${fmt(info.triangles)} triangles, ${fmt(info.dropped_faces)} degenerate faces dropped; ` +
+      `normals ${info.authored_normals ? "in the file" : "not in the file (computed)"}.`;
+    leavePreset();
+    syncControls();
+    requestRender();
+    return true;
+  } catch (e) {
+    showProblem(`Not loaded: ${says(e)}. The previous scene is unchanged.`);
+    return false;
+  }
+}
+
+export function bindMeshFiles() {
+  const read = (file) => file.arrayBuffer().then((b) => loadMeshBytes(file.name, b));
+  $("mesh-file").addEventListener("change", () => {
+    const f = $("mesh-file").files[0];
+    if (f) read(f);
+  });
+  const zone = $("panels");
+  zone.addEventListener("dragover", (e) => { e.preventDefault(); zone.classList.add("dropping"); });
+  zone.addEventListener("dragleave", () => zone.classList.remove("dropping"));
+  zone.addEventListener("drop", (e) => {
+    e.preventDefault();
+    zone.classList.remove("dropping");
+    const f = e.dataTransfer && e.dataTransfer.files[0];
+    if (f) read(f);
+  });
+}
+
+/** `?mesh=relative/path.obj`: a mesh that docs host beside the page (same site only). */
+export async function loadMeshFromQuery(path) {
+  const url = new URL(path, location.href);
+  if (url.origin !== location.origin) {
+    showProblem("The mesh= address must be on this site; other sites are never contacted.");
+    return;
+  }
+  try {
+    const r = await fetch(url);
+    if (!r.ok) throw new Error(`${r.status} ${r.statusText}`);
+    loadMeshBytes(url.pathname.split("/").pop() || "mesh", await r.arrayBuffer());
+  } catch (e) {
+    showProblem(`Cannot fetch the mesh ${path}: ${says(e)}`);
+  }
+}
+
+/** The report sheet (panels, labels, legend, metrics, link) drawn by the wasm module. */
+export function sheetCanvas() {
+  const s = app.viewer.reportSheet();
+  const c = document.createElement("canvas");
+  c.width = s.width;
+  c.height = s.height;
+  const bytes = new Uint8ClampedArray(s.rgba.buffer, s.rgba.byteOffset, s.rgba.length);
+  c.getContext("2d").putImageData(new ImageData(bytes, s.width, s.height), 0, 0);
+  return c;
+}
+
+export function bindExports() {
+  const v = app.viewer;
+  $("save-sheet").addEventListener("click", () =>
+    sheetCanvas().toBlob((b) => download("twinshade-sheet.png", b), "image/png"));
+  $("save-json").addEventListener("click", () =>
+    download("twinshade-metrics.json", jsonBlob({ link: location.href, report: v.report(), scene: JSON.parse(v.sceneJson()) })));
+  $("save-csv").addEventListener("click", () =>
+    download("twinshade-metrics.csv", new Blob([v.reportCsv()], { type: "text/csv" })));
+}
