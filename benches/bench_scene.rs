@@ -1,4 +1,4 @@
-//! The fixed BENCH SCENE (shared/peers/SCENE.md) rendered natively: both panels (Gouraud and
+//! The fixed benchmark scene (docs/REFERENCES.md) rendered natively: both panels (Gouraud and
 //! Phong) per frame, as the in-browser benchmark page does in wasm.
 //!
 //! Run: `cargo bench --bench bench_scene`. Criterion prints time per frame; the environment

@@ -310,7 +310,7 @@ impl Viewer {
         Ok(())
     }
 
-    /// Loads the fixed benchmark scene (shared/peers/SCENE.md) at icosphere `level` and
+    /// Loads the fixed benchmark scene (docs/REFERENCES.md, "The benchmark scene") at icosphere `level` and
     /// panel size `width` x `height`.
     #[wasm_bindgen(js_name = loadBenchmarkScene)]
     pub fn load_benchmark_scene(

@@ -1,4 +1,4 @@
-//! End-to-end test of the page in headless Chromium (shared/TESTING.md): the real `serve`
+//! End-to-end test of the page in headless Chromium (the workplace's notes on browser tests: Debian's chromium and chromedriver): the real `serve`
 //! command builds the wasm module and serves www/, WebDriver drives the page, and the canvas
 //! bytes are compared with the native renderer for the same scene.
 //!

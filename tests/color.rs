@@ -7,7 +7,7 @@ use twinshade::shading::{
 
 #[test]
 fn transfer_functions_match_iec_values() {
-    // IEC 61966-2-1:1999; values confirmed in shared/REFERENCES.md.
+    // IEC 61966-2-1:1999; values confirmed in docs/REFERENCES.md.
     let cases_decode = [(0.5, 0.2140411405), (128.0 / 255.0, 0.2158605001)];
     for (v, want) in cases_decode {
         assert!((srgb_to_linear_f64(v) - want).abs() < 1e-9, "decode({v})");

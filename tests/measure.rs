@@ -16,9 +16,9 @@ fn lab(l: f64, a: f64, b: f64) -> Lab {
 /// Sharma, Wu & Dalal, "The CIEDE2000 Color-Difference Formula: Implementation Notes,
 /// Supplementary Test Data, and Mathematical Observations", Color Research & Application
 /// 30(1):21-30, 2005, Table 1: (L1, a1, b1), (L2, a2, b2), dE00. Rows 1, 4, 7, 10, 13, 14, 15,
-/// 17, 19, 25, 30, 33 and 34 are confirmed in shared/REFERENCES.md; the other rows are
+/// 17, 19, 25, 30, 33 and 34 are confirmed in docs/REFERENCES.md; the other rows are
 /// written from memory and cross-checked below against the `palette` crate 0.7.7, which
-/// reproduces the whole table (shared/REFERENCES.md).
+/// reproduces the whole table (docs/REFERENCES.md).
 const SHARMA: [([f64; 3], [f64; 3], f64); 34] = [
     ([50.0, 2.6772, -79.7751], [50.0, 0.0, -82.7485], 2.0425),
     ([50.0, 3.1571, -77.2803], [50.0, 0.0, -82.7485], 2.8615),
@@ -160,7 +160,7 @@ fn ciede2000_agrees_with_palette_on_random_pairs() {
 
 #[test]
 fn srgb_to_lab_matches_references() {
-    // shared/REFERENCES.md: palette 0.7.x gives Lab(sRGB 255,0,0) = (53.2408, 80.0925,
+    // docs/REFERENCES.md: palette 0.7.x gives Lab(sRGB 255,0,0) = (53.2408, 80.0925,
     // 67.2032); sRGB grey 128 -> L* = 53.585 in every convention; white -> (100, 0, 0).
     let red = srgb8_to_lab([255, 0, 0]);
     assert!(

@@ -1,4 +1,4 @@
-//! Vertex normals against the values in shared/REFERENCES.md (libigl 2.6.3 reproductions of
+//! Vertex normals against the values in docs/REFERENCES.md (libigl 2.6.3 reproductions of
 //! Thuermer & Wuethrich 1998 and Max 1999).
 
 use glam::Vec3;
@@ -44,7 +44,7 @@ fn corner_normals(m: &Mesh, w: NormalWeighting) -> Vec<(Vec3, Vec3)> {
 
 #[test]
 fn angle_weighted_cube_corner_is_the_diagonal() {
-    // shared/REFERENCES.md (confirmed with libigl 2.6.3): angle weighting gives exactly
+    // docs/REFERENCES.md (confirmed with libigl 2.6.3): angle weighting gives exactly
     // (+-1, +-1, +-1)/sqrt(3) at every corner of a 12-triangle cube, whatever the split.
     for (p, n) in corner_normals(&triangle_cube(), NormalWeighting::Angle) {
         let want = p.normalize();
@@ -85,7 +85,7 @@ fn worst_deviation_deg(w: NormalWeighting) -> f64 {
 
 #[test]
 fn icosphere_normals_deviate_from_radial_as_published() {
-    // shared/REFERENCES.md (libigl 2.6.3 on an icosphere of 3 subdivisions): worst deviation
+    // docs/REFERENCES.md (libigl 2.6.3 on an icosphere of 3 subdivisions): worst deviation
     // from radial 0.30 degrees (angle), 0.68 (area); Max's weights are radial to 1e-6 degrees
     // in double precision (positions here are f32: measured 1.2e-5 degrees in f64 arithmetic
     // on f32 positions, so the bound is 1e-4).

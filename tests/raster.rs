@@ -134,7 +134,7 @@ fn perspective_correct_golden_value() {
     // Vulkan specification, "Basic Polygon Rasterization":
     // f = (a fa/wa + b fb/wb + c fc/wc) / (a/wa + b/wb + c/wc). With w = (1, 2, 4),
     // f = (0, 1, 0) and screen barycentrics 1/3 each, f = (1/2) / (1 + 1/2 + 1/4) = 2/7;
-    // screen-affine interpolation gives 1/3 (values derived in shared/REFERENCES.md).
+    // screen-affine interpolation gives 1/3 (values derived in docs/REFERENCES.md).
     // The centroid of this triangle is the centre of pixel (10, 10).
     let tri = |(x, y): (f32, f32), w: f32, f: f32| (x, y, 0.0, w, f);
     let v = [

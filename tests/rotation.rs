@@ -71,7 +71,7 @@ fn scanline_square_depends_on_roll() {
     // Textbook property of interpolating along edges then spans on polygons of more than
     // three corners (Foley, van Dam, Feiner, Hughes, Computer Graphics: Principles and
     // Practice, 2nd ed., on Gouraud shading; section from memory). Values computed for
-    // shared/REFERENCES.md: a square with corner values 1, 0, 1, 0 gives 0.5000 at its centre
+    // docs/REFERENCES.md: a square with corner values 1, 0, 1, 0 gives 0.5000 at its centre
     // at 0 degrees, 0.2113 at 30 degrees and 0.0000 at 45 degrees. The square is large (half
     // side 150 px) so snapping corners to 1/256 px moves the centre value by < 1e-5.
     let square = [

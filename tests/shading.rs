@@ -66,7 +66,7 @@ fn lambert_error(scene: &Scene, fb: &Framebuffer) -> (f64, f64) {
             if r2 > 0.81 {
                 continue;
             }
-            // Reference: Lambertian sphere, exact (shared/REFERENCES.md, "Lambertian sphere").
+            // Reference: Lambertian sphere, exact (docs/REFERENCES.md, "Lambertian sphere").
             let exact = f64::from(encode_srgb8((1.0 - r2).sqrt()));
             let got = f64::from(fb.rgba(x, y)[0]);
             let e = (got - exact).abs();
@@ -242,7 +242,7 @@ fn exact_surface_reference_is_right_where_per_pixel_is_wrong() {
     // The exact-surface shading follows each pixel's ray to the true sphere and lights it
     // with the true normal, so on a coarse mesh it matches the closed form to within 8-bit
     // rounding (measured mean 0.002 code, max 1), while per-pixel shading of the same mesh
-    // is off by about 5 codes on average (shared/REFERENCES.md, "Lambertian sphere, exact").
+    // is off by about 5 codes on average (docs/REFERENCES.md, "Lambertian sphere, exact").
     let scene = lambert_scene(1);
     let (exact_mean, exact_max) = lambert_error(&scene, &render(&scene, ShadingMode::Exact));
     let (phong_mean, _) = lambert_error(&scene, &render(&scene, ShadingMode::PerPixel));

@@ -1,4 +1,4 @@
-// In-browser benchmark: the fixed bench scene (shared/peers/SCENE.md) rendered by the real
+// In-browser benchmark: the fixed bench scene (docs/REFERENCES.md, "The benchmark scene") rendered by the real
 // twinshade wasm module, both panels plus putImageData per frame, reported like the WebGL
 // peer page (POST /result/NAME.json), so one driver times both in one run.
 // Query: ?configs=5x800x600,7x800x600&warm=10&frames=100&name=twinshade

