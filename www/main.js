@@ -48,11 +48,15 @@ async function start() {
   new ResizeObserver(fitPanels).observe($("panels"));
   requestRender();
   // ?sweep=turntable or ?sweep=roll:36 runs a sweep on opening (docs that show the plot).
-  const sweepQuery = /^([a-z_]+)(?::(\d+))?$/.exec(q.get("sweep") || "");
-  if (sweepQuery && app.vocab.sweep_axes.includes(sweepQuery[1])) {
-    $("sweep-axis").value = sweepQuery[1];
-    if (sweepQuery[2]) $("sweep-steps").value = sweepQuery[2];
-    toggleSweep();
+  if (q.has("sweep")) {
+    const asked = /^([a-z_]+)(?::(\d+))?$/.exec(q.get("sweep"));
+    if (asked && app.vocab.sweep_axes.includes(asked[1])) {
+      $("sweep-axis").value = asked[1];
+      if (asked[2]) $("sweep-steps").value = asked[2];
+      toggleSweep();
+    } else {
+      showProblem(`The address asks for the sweep "${q.get("sweep")}"; sweeps are ${app.vocab.sweep_axes.join(" or ")} (e.g. sweep=roll:36), so none was run.`);
+    }
   }
   // ?play starts the turntable (docs and embeds), unless the reader prefers reduced motion.
   if (q.has("play") && !reducedMotion.matches) setPlaying(true);

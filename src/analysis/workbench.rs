@@ -59,7 +59,7 @@ impl Workbench {
     }
 
     /// Compares the panels already rendered for `scene` (by [`Workbench::render_panels`] or
-    /// [`Workbench::render`] of a scene with the same panels, see [`Scene::same_panels`])
+    /// [`Workbench::render`] of a scene with the same panels, see [`Scene::same_panels`](crate::Scene::same_panels))
     /// under `scene`'s difference settings, rendering the exact reference if they name it:
     /// what a change of threshold, scale or pair, or the settle frame after a drag, needs.
     ///

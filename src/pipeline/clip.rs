@@ -10,7 +10,7 @@
 use glam::Vec4;
 
 /// Guard band half-width in NDC units (the screen is 1). With panels of at most
-/// [`crate::scene::definition::MAX_PANEL_SIDE`] pixels, screen coordinates stay within +-16384 px.
+/// [`MAX_PANEL_SIDE`](crate::scene::MAX_PANEL_SIDE) pixels, screen coordinates stay within +-16384 px.
 pub const GUARD: f32 = 7.0;
 
 /// A vertex in clip space with `N` varyings.

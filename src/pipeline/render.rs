@@ -249,15 +249,7 @@ impl Renderer {
         let Some(geo) = self.geometry.as_ref() else {
             return Err(PrepareError::NotPrepared);
         };
-        let ctx = DrawContext {
-            vb: &geo.vb,
-            clip: self.stage.clip(),
-            outcodes: self.stage.outcodes(),
-            screen: self.stage.screen(),
-            fixed: self.stage.fixed(),
-            size: (f.width as f32, f.height as f32),
-            cull: f.cull,
-        };
+        let ctx = DrawContext::new(&geo.vb, &self.stage, (f.width, f.height), f.cull);
         let (color2, _) = phong.planes_mut();
         let (color, depth) = gouraud.planes_mut();
         let mut target = Target {
@@ -334,15 +326,7 @@ impl Renderer {
             triangles: geo.vb.triangle_count() as u64,
             ..Default::default()
         };
-        let ctx = DrawContext {
-            vb: &geo.vb,
-            clip: self.stage.clip(),
-            outcodes: self.stage.outcodes(),
-            screen: self.stage.screen(),
-            fixed: self.stage.fixed(),
-            size: (width as f32, height as f32),
-            cull,
-        };
+        let ctx = DrawContext::new(&geo.vb, &self.stage, (width, height), cull);
         let (color, depth) = fb.planes_mut();
         let mut target = Target {
             color,
@@ -436,7 +420,7 @@ impl Renderer {
 }
 
 impl Renderer {
-    /// Probe points spread over the mesh of `scene` (see [`surface`](crate::pipeline::surface)):
+    /// Probe points spread over the mesh of `scene` (see [`SurfacePoint`]):
     /// the centroid and the point halfway to the first corner of up to `max / 2` faces, evenly
     /// strided through the face list.
     ///
@@ -500,7 +484,21 @@ struct DrawContext<'a> {
     cull: Cull,
 }
 
-impl DrawContext<'_> {
+impl<'a> DrawContext<'a> {
+    /// The context of a `size` (width, height) panel drawn from `vb` and this frame's
+    /// vertex stage.
+    fn new(vb: &'a VertexBuffer, stage: &'a VertexStage, size: (usize, usize), cull: Cull) -> Self {
+        DrawContext {
+            vb,
+            clip: stage.clip(),
+            outcodes: stage.outcodes(),
+            screen: stage.screen(),
+            fixed: stage.fixed(),
+            size: (size.0 as f32, size.1 as f32),
+            cull,
+        }
+    }
+
     /// Draws every triangle and scanline polygon with varyings from `varying(vertex)` and the
     /// fragment stage `shader_for(face)`; returns fragments shaded.
     fn draw<const N: usize, S: FragmentShader<N>>(

@@ -9,6 +9,7 @@ use crate::geometry::camera::Camera;
 use crate::geometry::shapes::Shape;
 use crate::geometry::subdivide::{Subdivision, MAX_LEVELS};
 use crate::geometry::vertex_buffer::PolygonMode;
+use crate::scene::formats;
 use crate::scene::settings::{
     DifferenceSettings, MeshSource, NormalSettings, PanelSize, ShadingMode, MAX_PANEL_SIDE,
 };
@@ -18,8 +19,8 @@ use glam::Quat;
 use serde::{Deserialize, Serialize};
 use std::fmt;
 
-/// The scene format version written by this build.
-pub const SCENE_VERSION: u32 = 1;
+/// The scene format version written by this build (see [`FORMAT`](crate::scene::FORMAT)).
+pub const SCENE_VERSION: u32 = formats::FORMAT;
 
 /// Everything that decides the pixels.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
@@ -213,9 +214,29 @@ impl Scene {
     /// # Errors
     /// A message naming the problem (syntax with line and column, unknown field, value out
     /// of range).
+    ///
+    /// Missing fields take the defaults of the file's `version` (1 when it has none), frozen
+    /// in the source (`src/scene/formats.rs`), so a scene file means the same in every later
+    /// build.
     pub fn from_json(text: &str) -> Result<ValidScene, SceneError> {
-        let scene: Scene =
+        // Parsed straight into a scene first, for messages with line and column.
+        let direct: Scene =
             serde_json::from_str(text).map_err(|e| SceneError::Syntax(e.to_string()))?;
+        let given: serde_json::Value =
+            serde_json::from_str(text).map_err(|e| SceneError::Syntax(e.to_string()))?;
+        let version = if given.get("version").is_some() {
+            direct.version
+        } else {
+            1
+        };
+        let Some(mut value) = formats::defaults(version) else {
+            return Err(SceneError::Version(version));
+        };
+        formats::merge(&mut value, given);
+        let mut scene: Scene =
+            serde_json::from_value(value).map_err(|e| SceneError::Syntax(e.to_string()))?;
+        // Complete now: every field is explicit, so it is a scene of this build's format.
+        scene.version = SCENE_VERSION;
         scene.validated()
     }
 

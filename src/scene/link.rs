@@ -1,22 +1,22 @@
 //! Scenes in links: a compact, versioned, checksummed text for the URL fragment.
 //!
-//! A link carries only what differs from [`Scene::default`] (a JSON object holding the changed
-//! fields), compressed with zlib (whose Adler-32 trailer makes any truncation or corruption
-//! detectable) and written in URL-safe base64 without padding, behind a link-format prefix:
-//! `1.<base64url(zlib(json diff))>`. The panel size is left out: the receiver's page sizes its
-//! own panels. Decoding merges the diff into the defaults and validates the whole scene, so a
-//! link from an older build still opens (fields it lacks take today's defaults) and anything
-//! else is refused with a message.
+//! A link carries only what differs from the defaults of its format (a JSON object holding the
+//! changed fields), compressed with zlib (whose Adler-32 trailer makes any truncation or
+//! corruption detectable) and written in URL-safe base64 without padding, behind the format
+//! number: `1.<base64url(zlib(json diff))>`. The panel size is left out: the receiver's page
+//! sizes its own panels. Decoding writes the diff over the frozen defaults of the link's format
+//! ([`crate::scene::formats`]), not over today's, and validates the whole scene, so a link
+//! opens to the scene it was made from in every later build; anything else is refused with a
+//! message.
 
 use crate::scene::definition::{Scene, ValidScene};
+use crate::scene::formats::{self, merge, FORMAT};
 use crate::scene::settings::PanelSize;
 use base64::engine::general_purpose::URL_SAFE_NO_PAD;
 use base64::Engine;
 use serde_json::{Map, Value};
 use std::fmt;
 
-/// The link format written by this build.
-const PREFIX: &str = "1.";
 /// Largest decompressed scene accepted from a link, in bytes.
 const MAX_JSON: usize = 64 * 1024;
 /// Largest link text accepted, in characters.
@@ -65,39 +65,35 @@ fn diff(value: &Value, base: &Value) -> Option<Value> {
     }
 }
 
-/// Writes `patch` over `base` (objects merged field by field, anything else replaced).
-fn merge(base: &mut Value, patch: Value) {
-    match (base, patch) {
-        (Value::Object(b), Value::Object(p)) => {
-            for (k, v) in p {
-                match b.get_mut(k.as_str()) {
-                    Some(slot) => merge(slot, v),
-                    None => {
-                        b.insert(k, v);
-                    }
-                }
-            }
-        }
-        (slot, v) => *slot = v,
-    }
-}
-
-fn scene_value(scene: &Scene) -> Value {
-    // A scene is plain data with string keys: conversion cannot fail.
-    let mut v = serde_json::to_value(scene).unwrap_or(Value::Null);
+/// A scene's JSON without the panel size (links leave it out) or the version (the link's
+/// format number stands for it).
+fn without_panel(mut v: Value) -> Value {
     if let Value::Object(m) = &mut v {
         m.remove("panel");
+        m.remove("version");
     }
     v
 }
 
+/// The defaults of link format `n` as a scene's JSON would hold them: parsed into a scene
+/// and written back, so their numbers take the same f32 path as the scene being encoded.
+fn format_defaults(n: u32) -> Option<Value> {
+    let scene: Scene = serde_json::from_value(formats::defaults(n)?).ok()?;
+    Some(scene_value(&scene))
+}
+
+fn scene_value(scene: &Scene) -> Value {
+    // A scene is plain data with string keys: conversion cannot fail.
+    without_panel(serde_json::to_value(scene).unwrap_or(Value::Null))
+}
+
 /// The link text (URL fragment payload) for a scene.
 pub fn encode(scene: &Scene) -> String {
-    let d = diff(&scene_value(scene), &scene_value(&Scene::default()))
-        .unwrap_or_else(|| Value::Object(Map::new()));
+    let base = format_defaults(FORMAT).unwrap_or(Value::Null);
+    let d = diff(&scene_value(scene), &base).unwrap_or_else(|| Value::Object(Map::new()));
     let json = d.to_string();
     let packed = miniz_oxide::deflate::compress_to_vec_zlib(json.as_bytes(), 9);
-    format!("{PREFIX}{}", URL_SAFE_NO_PAD.encode(packed))
+    format!("{FORMAT}.{}", URL_SAFE_NO_PAD.encode(packed))
 }
 
 /// Reads a scene from link text made by [`encode`] (with or without a leading `#s=`). The
@@ -112,10 +108,15 @@ pub fn decode(text: &str, panel: PanelSize) -> Result<ValidScene, LinkError> {
     if text.len() > MAX_LINK {
         return Err(err("it is too long"));
     }
-    let Some(body) = text.strip_prefix(PREFIX) else {
-        return Err(err(
-            "it is not a twinshade scene link (or is from a newer version)",
-        ));
+    let parsed = text.split_once('.').and_then(|(head, body)| {
+        let digits = !head.is_empty() && head.bytes().all(|b| b.is_ascii_digit());
+        Some((head.parse::<u32>().ok().filter(|_| digits)?, body))
+    });
+    let Some((format, body)) = parsed else {
+        return Err(err("it is not a twinshade scene link"));
+    };
+    let Some(defaults) = format_defaults(format) else {
+        return Err(err("it is from a newer version of twinshade"));
     };
     let packed = URL_SAFE_NO_PAD
         .decode(body)
@@ -127,7 +128,7 @@ pub fn decode(text: &str, panel: PanelSize) -> Result<ValidScene, LinkError> {
     if !patch.is_object() {
         return Err(err("it does not hold a scene"));
     }
-    let mut value = scene_value(&Scene::default());
+    let mut value = defaults;
     merge(&mut value, patch);
     let mut scene: Scene =
         serde_json::from_value(value).map_err(|e| LinkError::Unusable(e.to_string()))?;

@@ -2,11 +2,13 @@
 //! settings types, links that carry it in a URL fragment, and the built-in presets.
 
 pub(crate) mod definition;
+pub(crate) mod formats;
 pub(crate) mod link;
 pub(crate) mod presets;
 pub(crate) mod settings;
 
 pub use definition::{axis_angle, Scene, SceneError, ValidScene, SCENE_VERSION};
+pub use formats::FORMAT;
 pub use link::{decode, encode, LinkError};
 pub use presets::{preset, presets, Preset};
 pub use settings::{

@@ -2,7 +2,7 @@
 // lighting stays under the threshold at every angle; a plot of error against lighting
 // evaluations (one point per level; picking one shows that level) and a table.
 import { app, $, fmt, download, jsonBlob, fillSelect } from "./state.js";
-import { bindPlot, jobRunner, plotWidth, showPicked } from "./jobs.js";
+import { bindPlot, jobRunner, plotWidth } from "./jobs.js";
 import { pausePlay } from "./motion.js";
 
 function showAdvice() {
@@ -59,15 +59,6 @@ const toggleAdvice = jobRunner({
   finished: () => "Done. Click a point of the plot to show that level.",
 });
 
-function jumpToLevel(i) {
-  const a = app.viewer.advice();
-  if (!a || !(i >= 0 && i < a.rungs.length)) return;
-  showPicked(() => {
-    app.viewer.adviceJump(i);
-    app.adviceCurrent = i;
-  }, showAdvice);
-}
-
 const METHOD_LABELS = {
   midpoint: "Midpoint subdivision",
   pn_triangles: "PN-triangle subdivision",
@@ -76,7 +67,12 @@ const METHOD_LABELS = {
 export function bindAdvice() {
   fillSelect($("advice-method"), app.vocab.subdivision_methods, (m) => METHOD_LABELS[m] || m);
   $("advise").addEventListener("click", toggleAdvice);
-  bindPlot($("advice-plot"), () => (app.viewer.advice()?.rungs.length ?? 0), () => app.adviceCurrent, jumpToLevel);
+  bindPlot($("advice-plot"), {
+    count: () => app.viewer.advice()?.rungs.length ?? 0,
+    key: "adviceCurrent",
+    jump: (i) => app.viewer.adviceJump(i),
+    redraw: showAdvice,
+  });
   $("save-advice").addEventListener("click", () =>
     download("twinshade-advice.json", jsonBlob({ link: location.href, advice: app.viewer.advice() })));
 }

@@ -86,8 +86,19 @@ export function jobRunner(job) {
   };
 }
 
-/** Clicks on a plot's [data-pick] marks, and ← → while it has focus, pick item `i` of `count()`. */
-export function bindPlot(box, count, current, pick) {
+/**
+ * Picking on a plot: a click on a [data-pick] mark, or ← → while the plot has focus, shows item
+ * `i` of `count()` by `jump(i)` (a wasm call that changes the scene), remembers it in
+ * `app[key]` and redraws the plot with `redraw()`.
+ */
+export function bindPlot(box, { count, key, jump, redraw }) {
+  const pick = (i) => {
+    if (!(i >= 0 && i < count())) return;
+    showPicked(() => {
+      jump(i);
+      app[key] = i;
+    }, redraw);
+  };
   box.addEventListener("click", (e) => {
     const hit = e.target.closest && e.target.closest("[data-pick]");
     if (hit) pick(+hit.dataset.pick);
@@ -96,13 +107,13 @@ export function bindPlot(box, count, current, pick) {
     const step = { ArrowLeft: -1, ArrowRight: 1 }[e.key];
     if (step === undefined) return;
     const n = count();
-    if (n) pick((Math.max(0, current()) + step + n) % n);
+    if (n) pick((Math.max(0, app[key]) + step + n) % n);
     e.preventDefault();
   });
 }
 
 /** Shows a picked sweep step or advice level: `jump` changes the scene in wasm. */
-export function showPicked(jump, redraw) {
+function showPicked(jump, redraw) {
   try {
     jump();
   } catch (e) {

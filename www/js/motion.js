@@ -1,7 +1,7 @@
 // Motion: the turntable (play / pause) and rotation sweeps with their plot and summary.
 import { app, $, term, download, fillSelect } from "./state.js";
 import { requestRender } from "./loop.js";
-import { bindPlot, jobRunner, plotWidth, showPicked } from "./jobs.js";
+import { bindPlot, jobRunner, plotWidth } from "./jobs.js";
 
 // Turntable play: the mesh turns about its own up axis at TURN_DEG_PER_S. With
 // prefers-reduced-motion the page never starts it by itself (?play is ignored) and, when the
@@ -96,15 +96,6 @@ export const toggleSweep = jobRunner({
   finished: (total) => `${total} steps measured. Click the plot to show an angle.`,
 });
 
-function jumpToStep(step) {
-  const [done] = app.viewer.sweepProgress();
-  if (!(step >= 0 && step < done)) return;
-  showPicked(() => {
-    app.viewer.sweepJump(step);
-    app.sweepCurrent = step;
-  }, showSweepPlot);
-}
-
 const SWEEP_LABELS = {
   turntable: "Turntable (mesh turns, lights fixed)",
   roll: "Roll of the view (lighting unchanged)",
@@ -120,7 +111,12 @@ export function bindMotion() {
   $("play").addEventListener("click", () => setPlaying(!app.play.on));
   $("sweep").addEventListener("click", toggleSweep);
   $("sweep-metric").addEventListener("change", showSweepPlot);
-  bindPlot($("sweep-plot"), () => app.viewer.sweepProgress()[0], () => app.sweepCurrent, jumpToStep);
+  bindPlot($("sweep-plot"), {
+    count: () => app.viewer.sweepProgress()[0],
+    key: "sweepCurrent",
+    jump: (i) => app.viewer.sweepJump(i),
+    redraw: showSweepPlot,
+  });
   $("save-sweep").addEventListener("click", () =>
     download("twinshade-sweep.csv", new Blob([app.viewer.sweepCsv()], { type: "text/csv" })));
 }

@@ -1,0 +1,129 @@
+//! The defaults of every scene format, frozen.
+//!
+//! Scene files and links leave out fields (a link holds only what differs from the defaults),
+//! so what a record means depends on the defaults it was made against. Each format number
+//! keeps its own table here, as data: a file of `version` N and a link `N.…` are read by
+//! writing their fields over table N, never over today's [`Scene::default`]. When a default
+//! changes, the change gets a new format number and a new table; the old tables stay, so every
+//! scene file and link made by an earlier build opens to exactly the scene it was made from.
+//! `tests/links.rs` fails when `Scene::default` and the current format's table disagree.
+//!
+//! [`Scene::default`]: crate::scene::definition::Scene
+
+use serde_json::Value;
+
+/// The format this build writes: the scene JSON `version` and the link prefix.
+pub const FORMAT: u32 = 1;
+
+/// Format 1 (every build up to and including this one): the scene JSON of the defaults. The
+/// shading modes were then called `gouraud` and `phong`; both spellings are read.
+const FORMAT_1: &str = r##"{
+    "version": 1,
+    "mesh": {
+        "shape": {
+            "kind": "icosphere",
+            "level": 2
+        }
+    },
+    "normals": {
+        "source": "authored",
+        "weighting": "angle",
+        "crease_deg": 180.0
+    },
+    "polygons": "as_authored",
+    "subdivision": {
+        "method": "midpoint",
+        "levels": 0
+    },
+    "camera": {
+        "projection": "perspective",
+        "fov_y_deg": 45.0,
+        "ortho_height": 2.4,
+        "yaw_deg": 0.0,
+        "pitch_deg": 0.0,
+        "distance": 3.0,
+        "roll_deg": 0.0,
+        "near": 0.1,
+        "far": 100.0
+    },
+    "rotation": [
+        0.0,
+        0.0,
+        0.0,
+        1.0
+    ],
+    "lights": [
+        {
+            "kind": "directional",
+            "azimuth_deg": 35.0,
+            "elevation_deg": 30.0,
+            "distance": 2.5,
+            "color": "#fff4e0",
+            "intensity": 1.0,
+            "falloff": 0.1
+        },
+        {
+            "kind": "point",
+            "azimuth_deg": -70.0,
+            "elevation_deg": -10.0,
+            "distance": 3.0,
+            "color": "#9fc3ff",
+            "intensity": 0.5,
+            "falloff": 0.05
+        }
+    ],
+    "ambient_light": "#ffffff",
+    "material": {
+        "base_color": "#2f8f83",
+        "ambient": 0.08,
+        "diffuse": 0.9,
+        "specular": 0.6,
+        "shininess": 80.0,
+        "emissive": "#000000",
+        "emissive_strength": 0.0,
+        "finish": "dielectric"
+    },
+    "model": "blinn_phong",
+    "cull_back_faces": true,
+    "perspective_correct": true,
+    "panel": {
+        "width": 480,
+        "height": 360
+    },
+    "background": "#1b1d22",
+    "difference": {
+        "pair": [
+            "per_vertex",
+            "per_pixel"
+        ],
+        "threshold": 1.0,
+        "scale_max": 5.0
+    }
+}"##;
+
+/// The defaults of format `n` as JSON, or `None` for a format this build does not know.
+pub fn defaults(n: u32) -> Option<Value> {
+    let text = match n {
+        1 => FORMAT_1,
+        _ => return None,
+    };
+    // The tables are constants checked by the tests: they always parse.
+    serde_json::from_str(text).ok()
+}
+
+/// Writes `patch` over `base` (objects merged field by field, anything else replaced).
+pub fn merge(base: &mut Value, patch: Value) {
+    match (base, patch) {
+        (Value::Object(b), Value::Object(p)) => {
+            for (k, v) in p {
+                match b.get_mut(k.as_str()) {
+                    Some(slot) => merge(slot, v),
+                    None => {
+                        b.insert(k, v);
+                    }
+                }
+            }
+        }
+        (slot, v) => *slot = v,
+    }
+}

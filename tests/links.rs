@@ -1,0 +1,209 @@
+//! Links and scene files are records: a link made by any earlier build opens to the same scene
+//! and the same pixels. The stored corpus (tests/links/corpus.json) holds links made for every
+//! preset and for edited scenes, each with the exact scene JSON it decodes to and a hash of
+//! its pixels; a change that alters either fails here. Regenerate only for a deliberate,
+//! versioned change: `TWINSHADE_BLESS=1 cargo test --test links`.
+
+use serde_json::{json, Value};
+use std::path::PathBuf;
+use twinshade::scene::{decode, encode, presets, PanelSize, FORMAT};
+use twinshade::shading::Rgb;
+use twinshade::{Panel, Scene, ShadingMode, Workbench};
+
+/// Panels of the corpus renders: small, so the whole corpus renders in well under a second.
+const PANEL: PanelSize = PanelSize {
+    width: 120,
+    height: 90,
+};
+
+fn corpus_path() -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("tests/links/corpus.json")
+}
+
+/// FNV-1a, 64 bits, over the per-vertex, per-pixel and difference panels' bytes.
+fn pixel_hash(scene: &Scene) -> String {
+    let mut bench = Workbench::new();
+    bench
+        .render(&scene.checked().expect("valid"))
+        .expect("renders");
+    let mut h: u64 = 0xcbf2_9ce4_8422_2325;
+    for panel in [Panel::PerVertex, Panel::PerPixel, Panel::Difference] {
+        for &b in bench.framebuffer(panel).bytes() {
+            h ^= u64::from(b);
+            h = h.wrapping_mul(0x0000_0100_0000_01b3);
+        }
+    }
+    format!("{h:016x}")
+}
+
+/// The scenes of the corpus: every preset and a few edited scenes, by name.
+fn scenes() -> Vec<(String, Scene)> {
+    let mut out: Vec<(String, Scene)> = presets()
+        .into_iter()
+        .map(|p| (format!("preset {}", p.id), p.scene))
+        .collect();
+    out.push(("default".into(), Scene::default()));
+    let mut s = Scene::default();
+    s.material.base_color = Rgb::hex("#b8472f");
+    s.material.shininess = 300.0;
+    s.lights.truncate(1);
+    s.lights[0].azimuth_deg = -20.0;
+    s.difference.pair = [ShadingMode::PerVertex, ShadingMode::Exact];
+    s.difference.threshold = 2.0;
+    out.push((
+        "edited: glossy red, one light, against the exact surface".into(),
+        s,
+    ));
+    let mut s = Scene::default();
+    s.turn(40.0, -15.0);
+    s.camera.roll_deg = 30.0;
+    s.subdivision.levels = 1;
+    out.push(("edited: turned, rolled, subdivided".into(), s));
+    out
+}
+
+fn canonical(scene: &Scene) -> Value {
+    serde_json::to_value(scene).expect("serialises")
+}
+
+#[test]
+fn the_current_format_freezes_todays_defaults() {
+    // A changed default must come with a new format number and its own frozen table
+    // (src/scene/formats.rs): otherwise every published link would change its meaning.
+    let default = Scene::default();
+    let frozen = Scene::from_json("{}").expect("the frozen defaults are a valid scene");
+    assert_eq!(
+        canonical(frozen.scene()),
+        canonical(&default),
+        "Scene::default differs from the frozen defaults of format {FORMAT}: add format {} with its own table",
+        FORMAT + 1
+    );
+    // The default scene's link holds no field at all.
+    use base64::Engine;
+    let link = encode(&default);
+    let body = link
+        .strip_prefix(&format!("{FORMAT}."))
+        .expect("the current format");
+    let packed = base64::engine::general_purpose::URL_SAFE_NO_PAD
+        .decode(body)
+        .expect("base64url");
+    let json = miniz_oxide::inflate::decompress_to_vec_zlib(&packed).expect("zlib");
+    assert_eq!(json, b"{}");
+}
+
+#[test]
+fn stored_links_reopen_to_the_same_scene_and_pixels() {
+    let bless = std::env::var("TWINSHADE_BLESS").is_ok_and(|v| v == "1");
+    if bless {
+        let entries: Vec<Value> = scenes()
+            .iter()
+            .map(|(name, scene)| {
+                let mut s = scene.clone();
+                s.panel = PANEL;
+                json!({
+                    "name": name,
+                    "link": encode(&s),
+                    "scene": canonical(&s),
+                    "pixels_fnv1a64": pixel_hash(&s),
+                })
+            })
+            .collect();
+        let text = serde_json::to_string_pretty(&json!({
+            "panel": [PANEL.width, PANEL.height],
+            "entries": entries,
+        }))
+        .expect("serialises");
+        std::fs::write(corpus_path(), text + "\n").expect("write the corpus");
+    }
+    let text = std::fs::read_to_string(corpus_path()).expect("tests/links/corpus.json");
+    let corpus: Value = serde_json::from_str(&text).expect("corpus JSON");
+    let entries = corpus["entries"].as_array().expect("entries");
+    assert!(entries.len() >= 10, "only {} stored links", entries.len());
+    let mut failures = Vec::new();
+    for e in entries {
+        let name = e["name"].as_str().expect("name");
+        let link = e["link"].as_str().expect("link");
+        let scene = match decode(link, PANEL) {
+            Ok(s) => s,
+            Err(err) => {
+                failures.push(format!("{name}: {err}"));
+                continue;
+            }
+        };
+        // Compared as scenes (f32 fields): JSON text of an f32 may parse back a unit in the
+        // last place of f64 away, which is the same f32.
+        let stored: Scene = serde_json::from_value(e["scene"].clone()).expect("a stored scene");
+        if *scene.scene() != stored {
+            failures.push(format!(
+                "{name}: decodes to another scene:\n  {}\nnot\n  {}",
+                canonical(scene.scene()),
+                e["scene"]
+            ));
+        }
+        if pixel_hash(scene.scene()) != e["pixels_fnv1a64"] {
+            failures.push(format!("{name}: other pixels"));
+        }
+        // The page's address form opens the same.
+        let page = format!("http://127.0.0.1:8737/?size=120x90#s={link}");
+        let fragment = &page[page.find("#s=").expect("fragment")..];
+        assert_eq!(decode(fragment, PANEL).ok(), Some(scene.clone()), "{name}");
+    }
+    assert!(failures.is_empty(), "{}", failures.join("\n"));
+}
+
+#[test]
+fn links_of_earlier_builds_with_the_old_panel_names_open() {
+    // Builds before the per-vertex / per-pixel vocabulary wrote the compared pair as
+    // "gouraud" and "phong". This is such a link, built here the way they built it: the
+    // changed fields as JSON, zlib, URL-safe base64, format 1.
+    use base64::Engine;
+    let diff = r#"{"difference":{"pair":["gouraud","exact"]}}"#;
+    let packed = miniz_oxide::deflate::compress_to_vec_zlib(diff.as_bytes(), 9);
+    let link = format!(
+        "1.{}",
+        base64::engine::general_purpose::URL_SAFE_NO_PAD.encode(packed)
+    );
+    let scene = decode(&link, PANEL).expect("an old link opens");
+    assert_eq!(
+        scene.difference.pair,
+        [ShadingMode::PerVertex, ShadingMode::Exact]
+    );
+    // Everything else is the format-1 default scene.
+    let mut expected = Scene {
+        panel: PANEL,
+        ..Scene::default()
+    };
+    expected.difference.pair = [ShadingMode::PerVertex, ShadingMode::Exact];
+    assert_eq!(scene, expected);
+}
+
+#[test]
+fn a_link_of_an_unknown_format_is_refused_with_a_message() {
+    let link = encode(&Scene::default());
+    let body = link.split_once('.').expect("a format prefix").1;
+    for (text, says) in [
+        (format!("{}.{body}", FORMAT + 1), "newer version"),
+        (format!("+1.{body}"), "not a twinshade scene link"),
+        (body.to_string(), "not a twinshade scene link"),
+    ] {
+        let err = decode(&text, PANEL).expect_err("refused");
+        assert!(err.to_string().contains(says), "{text}: {err}");
+    }
+}
+
+#[test]
+fn scene_files_fill_missing_fields_from_their_versions_defaults() {
+    let s = Scene::from_json(r#"{"version": 1, "model": "phong"}"#).expect("valid");
+    let expected = Scene {
+        model: twinshade::shading::ReflectionModel::Phong,
+        ..Scene::default()
+    };
+    assert_eq!(s, expected);
+    // Without a version a file is read as version 1, the first format.
+    assert_eq!(
+        Scene::from_json(r#"{"model": "phong"}"#).expect("valid"),
+        expected
+    );
+    let err = Scene::from_json(r#"{"version": 0}"#).expect_err("no version 0");
+    assert!(err.to_string().contains("version 0"), "{err}");
+}
