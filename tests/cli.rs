@@ -452,3 +452,88 @@ fn advise_writes_the_library_advice_and_a_plot() {
     assert!(stdout.contains("1 x PN triangles"), "{stdout}");
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn links_render_on_the_command_line_as_the_page_shows_them() {
+    // The link of an edited preset, as the page's address holds it.
+    let mut scene = twinshade::scene::preset("crawling-highlight")
+        .expect("preset")
+        .scene;
+    scene.turn(25.0, 10.0);
+    scene.material.shininess = 200.0;
+    let link = twinshade::scene::encode(&scene);
+    let address = format!("http://127.0.0.1:8737/?size=160x120#s={link}");
+
+    // `scene --from-link` prints the scene the link holds (at the default panel size).
+    let out = twinshade(&["scene", "--from-link", &address]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let printed = Scene::from_json(&String::from_utf8_lossy(&out.stdout)).expect("scene JSON");
+    let expected = Scene {
+        panel: Scene::default().panel,
+        ..scene.clone()
+    };
+    assert_eq!(printed, expected);
+
+    // `render --from-link` at the page's panel size gives the panels the library renders for
+    // the decoded link, byte for byte; the fragment alone works the same.
+    for text in [address.clone(), format!("#s={link}")] {
+        let dir = temp_dir("from-link");
+        let d = dir.to_str().expect("utf-8").to_string();
+        let out = twinshade(&[
+            "render",
+            "--from-link",
+            &text,
+            "--size",
+            "160x120",
+            "--out-dir",
+            &d,
+        ]);
+        assert!(
+            out.status.success(),
+            "{}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+        let page_scene = twinshade::scene::decode(
+            &link,
+            twinshade::scene::PanelSize {
+                width: 160,
+                height: 120,
+            },
+        )
+        .expect("decodes");
+        let mut r = Renderer::new();
+        for (file, mode) in [
+            ("gouraud.png", ShadingMode::PerVertex),
+            ("phong.png", ShadingMode::PerPixel),
+        ] {
+            let mut fb = Framebuffer::new(0, 0);
+            r.render(&page_scene, mode, &mut fb).expect("render");
+            let (w, h, bytes) = read_png(&dir.join(file)).expect("readable PNG");
+            assert_eq!((w, h), (160, 120), "{file}");
+            assert!(
+                bytes == fb.bytes(),
+                "{file} differs from the decoded link's render"
+            );
+        }
+        let _ = std::fs::remove_dir_all(&dir);
+    }
+
+    // A damaged link is refused with the page's message, before anything is written.
+    let out = twinshade(&[
+        "sweep",
+        "--from-link",
+        "#s=1.AAAA",
+        "--out",
+        "/tmp/never.csv",
+    ]);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        !out.status.success() && err.contains("This link cannot be read"),
+        "{err}"
+    );
+    assert!(!std::path::Path::new("/tmp/never.csv").exists());
+}

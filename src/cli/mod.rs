@@ -124,6 +124,9 @@ enum Command {
         /// Print a built-in preset.
         #[arg(long, conflicts_with = "default")]
         preset: Option<String>,
+        /// Print the scene of a page link (the whole address or its `#s=...` part).
+        #[arg(long, conflicts_with_all = ["default", "file", "preset"])]
+        from_link: Option<String>,
         /// Print the link fragment (`#s=...`) for the page instead of JSON.
         #[arg(long)]
         link: bool,
@@ -145,8 +148,13 @@ struct SceneArgs {
     #[arg(long, conflicts_with = "preset")]
     scene: Option<PathBuf>,
     /// A built-in preset instead of a scene file (see `twinshade presets`).
-    #[arg(long)]
+    #[arg(long, conflicts_with = "from_link")]
     preset: Option<String>,
+    /// A page link instead of a scene file: the whole address or its `#s=...` part. Gives
+    /// exactly what the page shows for it at the same panel size (`--size`; 480x360 if
+    /// absent). A link that names a mesh file needs `--mesh` with that file.
+    #[arg(long, conflicts_with = "scene")]
+    from_link: Option<String>,
     /// A mesh file (OBJ, STL, PLY, glTF or GLB) instead of the scene's shape.
     #[arg(long)]
     mesh: Option<PathBuf>,
@@ -162,7 +170,7 @@ impl SceneArgs {
         self,
     ) -> Result<(ValidScene, Workbench, Option<twinshade::geometry::MeshInfo>), String> {
         prepare(
-            pick_scene(self.scene, self.preset)?,
+            pick_scene(self.scene, self.preset, self.from_link, self.size)?,
             self.mesh.as_deref(),
             self.size,
         )
@@ -307,16 +315,22 @@ fn run(command: Command) -> Result<(), String> {
             default,
             file,
             preset,
+            from_link,
             link,
         } => {
             let scene = match (default, file, preset) {
+                _ if from_link.is_some() => {
+                    scene_from_link(from_link.as_deref().unwrap_or_default(), None)?
+                }
                 (_, Some(path), _) => load_scene(&path)?,
                 (_, None, Some(id)) => twinshade::scene::preset(&id)
                     .map(|p| p.scene)
                     .ok_or_else(|| format!("no preset '{id}' (see `twinshade presets`)"))?,
                 (true, None, None) => Scene::default(),
                 (false, None, None) => {
-                    return Err("say --default, --file FILE or --preset ID".into())
+                    return Err(
+                        "say --default, --file FILE, --preset ID or --from-link TEXT".into(),
+                    )
                 }
             };
             if link {
@@ -335,7 +349,15 @@ fn run(command: Command) -> Result<(), String> {
 }
 
 /// The scene named on the command line: a file, a preset or the default.
-fn pick_scene(file: Option<PathBuf>, preset: Option<String>) -> Result<Scene, String> {
+fn pick_scene(
+    file: Option<PathBuf>,
+    preset: Option<String>,
+    link: Option<String>,
+    size: Option<(u32, u32)>,
+) -> Result<Scene, String> {
+    if let Some(text) = link {
+        return scene_from_link(&text, size);
+    }
     match (file, preset) {
         (Some(p), _) => load_scene(&p),
         (None, Some(id)) => twinshade::scene::preset(&id)
@@ -343,6 +365,21 @@ fn pick_scene(file: Option<PathBuf>, preset: Option<String>) -> Result<Scene, St
             .ok_or_else(|| format!("no preset '{id}' (see `twinshade presets`)")),
         (None, None) => Ok(Scene::default()),
     }
+}
+
+/// The scene of page link text: a whole address (`http://.../?size=...#s=1.…`), its fragment
+/// (`#s=1.…`) or the bare link (`1.…`), at panel size `size` (the default scene's if `None`).
+fn scene_from_link(text: &str, size: Option<(u32, u32)>) -> Result<Scene, String> {
+    let text = text.trim();
+    let link = text.find("#s=").map_or(text, |i| &text[i..]);
+    let mut panel = Scene::default().panel;
+    if let Some((w, h)) = size {
+        panel.width = w;
+        panel.height = h;
+    }
+    twinshade::scene::decode(link, panel)
+        .map(ValidScene::into_scene)
+        .map_err(|e| e.to_string())
 }
 
 /// Applies `--size` and `--mesh` to a scene and returns it with a workbench holding the mesh
