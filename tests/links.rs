@@ -207,3 +207,94 @@ fn scene_files_fill_missing_fields_from_their_versions_defaults() {
     let err = Scene::from_json(r#"{"version": 0}"#).expect_err("no version 0");
     assert!(err.to_string().contains("version 0"), "{err}");
 }
+
+/// A small deterministic generator (xorshift64*), so a failing input can be found again.
+struct Rng(u64);
+
+impl Rng {
+    fn next(&mut self) -> u64 {
+        self.0 ^= self.0 >> 12;
+        self.0 ^= self.0 << 25;
+        self.0 ^= self.0 >> 27;
+        self.0.wrapping_mul(0x2545_f491_4f6c_dd1d)
+    }
+    fn below(&mut self, n: usize) -> usize {
+        (self.next() % n.max(1) as u64) as usize
+    }
+}
+
+/// Link text to try: a stored link mutated (characters replaced, inserted, dropped, cut,
+/// pieces of two links spliced) or random text.
+fn mutant(rng: &mut Rng, links: &[String]) -> String {
+    const ALPHABET: &[u8] =
+        b"ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789-_.#s=+/%{}\"\\ \n\x7f";
+    let mut t: Vec<u8> = links[rng.below(links.len())].as_bytes().to_vec();
+    match rng.below(6) {
+        0 => {
+            for _ in 0..1 + rng.below(4) {
+                let i = rng.below(t.len());
+                t[i] = ALPHABET[rng.below(ALPHABET.len())];
+            }
+        }
+        1 => {
+            let i = rng.below(t.len() + 1);
+            t.insert(i.min(t.len()), ALPHABET[rng.below(ALPHABET.len())]);
+        }
+        2 => {
+            let i = rng.below(t.len());
+            t.remove(i);
+        }
+        3 => t.truncate(rng.below(t.len())),
+        4 => {
+            let other = links[rng.below(links.len())].as_bytes();
+            let cut = rng.below(t.len()).min(other.len());
+            t.truncate(cut);
+            t.extend_from_slice(&other[cut..]);
+        }
+        _ => {
+            t = (0..rng.below(200))
+                .map(|_| (rng.next() & 0xff) as u8)
+                .collect();
+        }
+    }
+    String::from_utf8_lossy(&t).into_owned()
+}
+
+#[test]
+fn damaged_links_are_refused_with_a_message_and_never_panic() {
+    // TWINSHADE_FUZZ_LINKS sets how many (README states the long run's figure); CI runs 20,000.
+    let n: usize = std::env::var("TWINSHADE_FUZZ_LINKS")
+        .ok()
+        .and_then(|v| v.parse().ok())
+        .unwrap_or(20_000);
+    let mut links: Vec<String> = scenes().iter().map(|(_, s)| encode(s)).collect();
+    links.push(encode(&Scene::default()));
+    let mut rng = Rng(0x7417_5ade_2026_1202);
+    let (mut refused, mut opened) = (0usize, 0usize);
+    for _ in 0..n {
+        let text = mutant(&mut rng, &links);
+        match std::panic::catch_unwind(|| decode(&text, PANEL)) {
+            Ok(Ok(scene)) => {
+                // Whatever opens is a valid scene the pipeline can take.
+                assert!(scene.scene().validate().is_ok(), "{text:?}");
+                opened += 1;
+            }
+            Ok(Err(e)) => {
+                let m = e.to_string();
+                assert!(m.starts_with("This link"), "{text:?}: {m}");
+                assert!(
+                    m.len() > "This link cannot be read: ".len(),
+                    "{text:?}: {m}"
+                );
+                refused += 1;
+            }
+            Err(_) => panic!("decoding {text:?} panicked"),
+        }
+    }
+    eprintln!("{n} link texts: {refused} refused with a message, {opened} opened");
+    assert_eq!(refused + opened, n);
+    assert!(
+        refused > n / 2,
+        "most mutants are damaged: {refused} of {n}"
+    );
+}
