@@ -49,6 +49,17 @@ pub struct RasterVertex<const N: usize> {
     pub var: [f32; N],
 }
 
+impl<const N: usize> RasterVertex<N> {
+    /// All zeros: a placeholder for fixed-size corner arrays.
+    pub const ZERO: Self = RasterVertex {
+        x: 0.0,
+        y: 0.0,
+        z: 0.0,
+        inv_w: 0.0,
+        var: [0.0; N],
+    };
+}
+
 /// What a fragment shader produces and how it is stored.
 pub trait Pixel: Copy {
     /// Writes the value for pixel `i`.

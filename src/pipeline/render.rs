@@ -531,13 +531,7 @@ impl<'a> DrawContext<'a> {
                 u64::from(self.triangle::<N, PERSP, S>(target, *tri, varying, &shader, &mut batch));
             last_shader = Some(shader);
         }
-        let mut rv = [RasterVertex {
-            x: 0.0,
-            y: 0.0,
-            z: 0.0,
-            inv_w: 0.0,
-            var: [0.0; N],
-        }; MAX_CORNERS];
+        let mut rv = [RasterVertex::ZERO; MAX_CORNERS];
         for &face in &vb.scanline_faces {
             let poly = vb.polygon(face as usize);
             let shader = shader_for(face as usize);
@@ -627,13 +621,7 @@ impl<'a> DrawContext<'a> {
         if poly.len < 3 {
             return 0;
         }
-        let mut rv = [RasterVertex {
-            x: 0.0,
-            y: 0.0,
-            z: 0.0,
-            inv_w: 0.0,
-            var: [0.0; N],
-        }; crate::pipeline::clip::MAX_CLIPPED];
+        let mut rv = [RasterVertex::ZERO; crate::pipeline::clip::MAX_CLIPPED];
         for (out, c) in rv.iter_mut().zip(&poly.verts[..poly.len]) {
             let s = project(c.pos, w, h);
             let mut var = c.var;
