@@ -395,7 +395,14 @@ fn golden_pixels_match_closed_forms() {
         let g = 0.62 + 0.18 * (2.0 * std::f64::consts::PI * t + 0.3).sin() - 0.25 * t;
         p[0].hypot(p[2]) - 2.0 * (t * (1.0 - t)).sqrt() * g
     };
-    let surfaces: [(&str, &str, &dyn Fn([f64; 3]) -> f64, [(usize, usize); 3]); 2] = [
+    /// A scene, its exact-surface golden, the surface's implicit function, pixels to check.
+    type Case<'a> = (
+        &'a str,
+        &'a str,
+        &'a dyn Fn([f64; 3]) -> f64,
+        [(usize, usize); 3],
+    );
+    let surfaces: [Case; 2] = [
         (
             "torus-ortho-metal",
             "torus-ortho-metal-exact.png",
