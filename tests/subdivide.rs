@@ -159,3 +159,151 @@ fn scenes_render_subdivided_meshes_and_refuse_too_many_levels() {
     scene.subdivision.levels = 9;
     assert!(scene.validate().is_err());
 }
+
+/// The curved PN triangle of A. Vlachos, J. Peters, C. Boyd, J. L. Mitchell, "Curved PN
+/// Triangles" (I3D 2001), written out here in f64 from the paper's formulas: the cubic Bezier
+/// patch b(u, v, w) with w = 1 - u - v on corners P1 (w = 1), P2 (u = 1), P3 (v = 1), and the
+/// quadratic normal field n(u, v, w), normalised.
+fn pn_patch(p: [[f64; 3]; 3], n: [[f64; 3]; 3], u: f64, v: f64) -> ([f64; 3], [f64; 3]) {
+    let add = |a: [f64; 3], b: [f64; 3]| [a[0] + b[0], a[1] + b[1], a[2] + b[2]];
+    let sub = |a: [f64; 3], b: [f64; 3]| [a[0] - b[0], a[1] - b[1], a[2] - b[2]];
+    let mul = |a: [f64; 3], k: f64| [a[0] * k, a[1] * k, a[2] * k];
+    let dot = |a: [f64; 3], b: [f64; 3]| a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
+    let unit = |a: [f64; 3]| mul(a, 1.0 / dot(a, a).sqrt());
+    // w_ij = (P_j - P_i) . N_i; b_ij = (2 P_i + P_j - w_ij N_i) / 3.
+    let b = |i: usize, j: usize| {
+        let w = dot(sub(p[j], p[i]), n[i]);
+        mul(sub(add(mul(p[i], 2.0), p[j]), mul(n[i], w)), 1.0 / 3.0)
+    };
+    let (b210, b120, b021, b012, b102, b201) =
+        (b(0, 1), b(1, 0), b(1, 2), b(2, 1), b(2, 0), b(0, 2));
+    let e = mul(
+        [b210, b120, b021, b012, b102, b201]
+            .into_iter()
+            .fold([0.0; 3], add),
+        1.0 / 6.0,
+    );
+    let centroid = mul(add(add(p[0], p[1]), p[2]), 1.0 / 3.0);
+    let b111 = add(e, mul(sub(e, centroid), 0.5));
+    let w = 1.0 - u - v;
+    let terms = [
+        (p[0], w * w * w),
+        (p[1], u * u * u),
+        (p[2], v * v * v),
+        (b210, 3.0 * w * w * u),
+        (b120, 3.0 * w * u * u),
+        (b201, 3.0 * w * w * v),
+        (b021, 3.0 * u * u * v),
+        (b102, 3.0 * w * v * v),
+        (b012, 3.0 * u * v * v),
+        (b111, 6.0 * w * u * v),
+    ];
+    let pos = terms.iter().fold([0.0; 3], |s, (c, k)| add(s, mul(*c, *k)));
+    // v_ij = 2 (P_j - P_i) . (N_i + N_j) / |P_j - P_i|^2; n_ij = unit(N_i + N_j - v_ij (P_j - P_i)).
+    let nn = |i: usize, j: usize| {
+        let d = sub(p[j], p[i]);
+        let vij = 2.0 * dot(d, add(n[i], n[j])) / dot(d, d);
+        unit(sub(add(n[i], n[j]), mul(d, vij)))
+    };
+    let normal = [
+        (n[0], w * w),
+        (n[1], u * u),
+        (n[2], v * v),
+        (nn(0, 1), w * u),
+        (nn(1, 2), u * v),
+        (nn(2, 0), w * v),
+    ]
+    .iter()
+    .fold([0.0; 3], |s, (c, k)| add(s, mul(*c, *k)));
+    (pos, unit(normal))
+}
+
+#[test]
+fn pn_triangles_follow_the_papers_patch_and_normals() {
+    // A triangle whose normals lean away from its face, so the cubic and the quadratic normal
+    // terms are not zero. Every vertex of two PN levels lies on the paper's patch at a
+    // quarter-step barycentric point (edge midpoints at level 1, interior points at level 2),
+    // with the paper's normal there.
+    let p = [[0.0, 0.0, 0.0], [1.0, 0.1, 0.0], [0.2, 0.9, 0.1]];
+    let n = [[-0.3, -0.2, 1.0], [0.4, -0.1, 1.0], [0.0, 0.5, 1.0]].map(|v: [f64; 3]| {
+        let l = (v[0] * v[0] + v[1] * v[1] + v[2] * v[2]).sqrt();
+        [v[0] / l, v[1] / l, v[2] / l]
+    });
+    let mut mesh = Mesh::new("tilted");
+    for (pp, nn) in p.iter().zip(&n) {
+        mesh.positions
+            .push(Vec3::new(pp[0] as f32, pp[1] as f32, pp[2] as f32));
+        mesh.normals
+            .push(Vec3::new(nn[0] as f32, nn[1] as f32, nn[2] as f32));
+    }
+    mesh.push_face(&[0, 1, 2].map(|i| twinshade::geometry::Corner {
+        position: i,
+        normal: i,
+    }));
+    let sub = subdivide(&mesh, SubdivisionMethod::PnTriangles, 2).expect("subdivides");
+    let mut matched = 0;
+    let mut interior = 0;
+    for f in sub.faces() {
+        for c in f {
+            let got = sub.positions[c.position as usize];
+            let got_n = sub.normals[c.normal as usize];
+            // The grid point this vertex should be: the nearest quarter-step point.
+            let best = (0..=4)
+                .flat_map(|i| (0..=4 - i).map(move |j| (i as f64 / 4.0, j as f64 / 4.0)))
+                .map(|(u, v)| (u, v, pn_patch(p, n, u, v)))
+                .min_by(|a, b| {
+                    let d = |q: [f64; 3]| {
+                        (0..3)
+                            .map(|k| (q[k] - f64::from(got[k])).powi(2))
+                            .sum::<f64>()
+                    };
+                    d(a.2 .0).total_cmp(&d(b.2 .0))
+                })
+                .expect("grid");
+            let (u, v, (want, want_n)) = best;
+            for k in 0..3 {
+                assert!(
+                    (f64::from(got[k]) - want[k]).abs() < 1e-5,
+                    "vertex at (u {u}, v {v}): {got} vs the paper's {want:?}"
+                );
+                assert!(
+                    (f64::from(got_n[k]) - want_n[k]).abs() < 1e-5,
+                    "normal at (u {u}, v {v}): {got_n} vs the paper's {want_n:?}"
+                );
+            }
+            matched += 1;
+            if u > 0.0 && v > 0.0 && u + v < 1.0 {
+                interior += 1;
+            }
+        }
+    }
+    assert_eq!(matched, 16 * 3, "16 triangles of 3 corners");
+    assert!(interior > 0, "interior points were checked");
+
+    // On a sphere (corners on the unit sphere, radial normals) the cubic's edge midpoint lies at
+    // radius (5 - cos t) cos(t / 2) / 4 for corners t apart (from b210 = ((3 - cos t) P1 + P2) / 3).
+    let t = 60f64.to_radians();
+    let mut arc = Mesh::new("arc");
+    for q in [[1.0, 0.0, 0.0], [t.cos(), t.sin(), 0.0], [0.0, 0.0, 1.0]] {
+        let q = Vec3::new(q[0] as f32, q[1] as f32, q[2] as f32);
+        arc.positions.push(q);
+        arc.normals.push(q);
+    }
+    arc.push_face(&[0, 1, 2].map(|i| twinshade::geometry::Corner {
+        position: i,
+        normal: i,
+    }));
+    let one = subdivide(&arc, SubdivisionMethod::PnTriangles, 1).expect("subdivides");
+    let mid = Vec3::new((1.0 + t.cos() as f32) / 2.0, t.sin() as f32 / 2.0, 0.0).normalize();
+    let near = one
+        .positions
+        .iter()
+        .max_by(|a, b| a.dot(mid).total_cmp(&b.dot(mid)))
+        .expect("points");
+    let want = (5.0 - t.cos()) * (t / 2.0).cos() / 4.0;
+    assert!(
+        (f64::from(near.length()) - want).abs() < 1e-6,
+        "edge midpoint radius {} vs (5 - cos t) cos(t/2) / 4 = {want}",
+        near.length()
+    );
+}
