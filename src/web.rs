@@ -14,6 +14,7 @@ use crate::analysis::workbench::Workbench;
 use crate::geometry::shapes::{DetailControl, Shape};
 use crate::geometry::subdivide::{SubdivisionMethod, MAX_LEVELS};
 use crate::scene::definition::{Scene, ValidScene};
+use crate::scene::formats::{revision_notice, RENDERER_REVISION};
 use crate::scene::settings::{MeshSource, ShadingMode, MAX_PANEL_SIDE};
 use wasm_bindgen::prelude::*;
 
@@ -207,9 +208,11 @@ impl Viewer {
     }
 
     /// Replaces the scene with one read from link text; on failure the scene is kept and a
-    /// JavaScript `Error` says what is wrong with the link.
+    /// JavaScript `Error` says what is wrong with the link. Returns a notice when the link was
+    /// made under an older renderer revision (its pixels may differ), else `undefined`; the
+    /// scene is then shown, and linked again, as this build's revision.
     #[wasm_bindgen(js_name = setSceneFromLink)]
-    pub fn set_scene_from_link(&mut self, text: &str) -> Result<(), JsValue> {
+    pub fn set_scene_from_link(&mut self, text: &str) -> Result<Option<String>, JsValue> {
         let scene = crate::scene::link::decode(text, self.scene.panel).map_err(js_error)?;
         if let MeshSource::File { name } = &scene.mesh {
             if self.mesh_name.as_deref() != Some(name.as_str()) {
@@ -218,9 +221,13 @@ impl Viewer {
                 )));
             }
         }
+        let notice = revision_notice(scene.renderer, RENDERER_REVISION);
+        let scene = scene
+            .edit(|s| s.renderer = RENDERER_REVISION)
+            .map_err(js_error)?;
         self.bench.prepare(&scene).map_err(js_error)?;
         self.replace_scene(scene);
-        Ok(())
+        Ok(notice)
     }
 
     /// Imports a mesh file (OBJ, STL, PLY, glTF or GLB) from its bytes and shows it. Returns its counts

@@ -298,3 +298,60 @@ fn damaged_links_are_refused_with_a_message_and_never_panic() {
         "most mutants are damaged: {refused} of {n}"
     );
 }
+
+#[test]
+fn records_carry_the_renderer_revision() {
+    use twinshade::scene::{revision_notice, RENDERER_REVISION};
+    // Links and files made before scenes recorded it were all drawn by revision 1.
+    let old = decode(&encode(&Scene::default()), PANEL).expect("opens");
+    assert_eq!(old.renderer, 1);
+    assert_eq!(Scene::from_json("{}").expect("valid").renderer, 1);
+    assert_eq!(Scene::default().renderer, RENDERER_REVISION);
+    // A revision this build does not know is refused, with the field's path.
+    for bad in [0, RENDERER_REVISION + 1] {
+        let err = Scene::from_json(&format!(r#"{{"renderer": {bad}}}"#)).expect_err("refused");
+        assert!(
+            matches!(&err, twinshade::SceneError::Field { path, .. } if path == "renderer"),
+            "{err:?}"
+        );
+    }
+    // The notice a scene of an older revision opens with.
+    assert_eq!(revision_notice(RENDERER_REVISION, RENDERER_REVISION), None);
+    let notice = revision_notice(1, 2).expect("a notice");
+    assert!(
+        notice.contains("revision 1") && notice.contains("revision 2"),
+        "{notice}"
+    );
+    // Metrics and sheets say which revision drew them.
+    let mut bench = Workbench::new();
+    let report = *bench
+        .render(
+            &Scene {
+                panel: PANEL,
+                ..Scene::default()
+            }
+            .checked()
+            .expect("valid"),
+        )
+        .expect("renders");
+    assert_eq!(report.renderer_revision, RENDERER_REVISION);
+    let json = serde_json::to_value(report).expect("serialises");
+    assert_eq!(json["renderer_revision"], RENDERER_REVISION);
+    let csv = report.to_csv("#s=1.x");
+    let (header, values) = csv.split_once('\n').expect("two lines");
+    let col = header
+        .split(',')
+        .position(|h| h == "renderer_revision")
+        .expect("a renderer_revision column");
+    assert_eq!(
+        values.split(',').nth(col),
+        Some(RENDERER_REVISION.to_string().as_str())
+    );
+    let lines = twinshade::analysis::metrics_lines(&report);
+    assert!(
+        lines
+            .iter()
+            .any(|l| l.contains(&format!("renderer revision {RENDERER_REVISION}"))),
+        "{lines:?}"
+    );
+}

@@ -31,6 +31,8 @@ pub struct FrameReport {
     pub metrics: DiffMetrics,
     /// Lighting evaluations per path.
     pub lighting: LightingCost,
+    /// The renderer revision that drew the panels (see `scene::RENDERER_REVISION`).
+    pub renderer_revision: u32,
 }
 
 impl FrameReport {
@@ -41,9 +43,9 @@ impl FrameReport {
             "pair_a,pair_b,width,height,triangles,covered_pixels,silhouette_mismatch_pixels,\
 de00_mean,de00_p95,de00_max,de76_mean,de76_p95,de76_max,threshold_de00,share_above_threshold,\
 peak_luminance_a,peak_luminance_b,peak_ratio,lighting_per_vertex,lighting_per_pixel,\
-lighting_exact,link";
+lighting_exact,renderer_revision,link";
         format!(
-            "{header}\n{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{link}\n",
+            "{header}\n{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{link}\n",
             self.pair[0].id(),
             self.pair[1].id(),
             self.width,
@@ -65,6 +67,7 @@ lighting_exact,link";
             self.lighting.per_vertex,
             self.lighting.per_pixel,
             self.lighting.exact,
+            self.renderer_revision,
         )
     }
 }

@@ -61,12 +61,13 @@ pub fn metrics_lines(report: &FrameReport) -> Vec<String> {
             m.peak_ratio
         ),
         format!(
-            "Lighting evaluations per frame: {} per vertex vs {} per pixel ({} triangles, {}x{} px)",
+            "Lighting evaluations per frame: {} per vertex vs {} per pixel ({} triangles, {}x{} px); renderer revision {}",
             report.lighting.per_vertex,
             report.lighting.per_pixel,
             report.triangles,
             report.width,
-            report.height
+            report.height,
+            report.renderer_revision
         ),
     ]
 }

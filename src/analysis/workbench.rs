@@ -13,6 +13,7 @@ use crate::geometry::mesh::Mesh;
 use crate::pipeline::framebuffer::Framebuffer;
 use crate::pipeline::render::{PanelStats, PrepareError, Renderer};
 use crate::scene::definition::ValidScene;
+use crate::scene::formats::RENDERER_REVISION;
 use crate::scene::settings::ShadingMode;
 
 /// Panels and the comparer for one scene at a time.
@@ -108,6 +109,7 @@ impl Workbench {
             triangles: self.stats[1].triangles,
             pair,
             metrics,
+            renderer_revision: RENDERER_REVISION,
             lighting: LightingCost {
                 per_vertex: self.stats[0].lit_vertices,
                 per_pixel: self.stats[1].fragments,

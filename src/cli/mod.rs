@@ -377,9 +377,14 @@ fn scene_from_link(text: &str, size: Option<(u32, u32)>) -> Result<Scene, String
         panel.width = w;
         panel.height = h;
     }
-    twinshade::scene::decode(link, panel)
-        .map(ValidScene::into_scene)
-        .map_err(|e| e.to_string())
+    let scene = twinshade::scene::decode(link, panel).map_err(|e| e.to_string())?;
+    let current = twinshade::scene::RENDERER_REVISION;
+    if let Some(notice) = twinshade::scene::revision_notice(scene.renderer, current) {
+        eprintln!("twinshade: {notice}");
+    }
+    let mut scene = scene.into_scene();
+    scene.renderer = current;
+    Ok(scene)
 }
 
 /// Applies `--size` and `--mesh` to a scene and returns it with a workbench holding the mesh

@@ -9,7 +9,7 @@ use crate::geometry::camera::Camera;
 use crate::geometry::shapes::Shape;
 use crate::geometry::subdivide::{Subdivision, MAX_LEVELS};
 use crate::geometry::vertex_buffer::PolygonMode;
-use crate::scene::formats;
+use crate::scene::formats::{self, RENDERER_REVISION};
 use crate::scene::settings::{
     DifferenceSettings, MeshSource, NormalSettings, PanelSize, ShadingMode, MAX_PANEL_SIDE,
 };
@@ -59,6 +59,9 @@ pub struct Scene {
     pub background: Rgb,
     /// What the difference view compares and how it is scaled.
     pub difference: DifferenceSettings,
+    /// The renderer revision the scene was made under, 1..=[`RENDERER_REVISION`] (see
+    /// [`revision_notice`](crate::scene::revision_notice)).
+    pub renderer: u32,
 }
 
 impl Default for Scene {
@@ -100,6 +103,7 @@ impl Default for Scene {
             panel: PanelSize::default(),
             background: Rgb::hex("#1b1d22"),
             difference: DifferenceSettings::default(),
+            renderer: RENDERER_REVISION,
         }
     }
 }
@@ -362,6 +366,12 @@ impl Scene {
                     .into(),
             ));
         }
+        if !(1..=RENDERER_REVISION).contains(&self.renderer) {
+            return Err(at("renderer")(format!(
+                "renderer revision {} is not one this build knows (1 to {RENDERER_REVISION})",
+                self.renderer
+            )));
+        }
         for (name, path, v) in [
             ("panel width", "panel.width", self.panel.width),
             ("panel height", "panel.height", self.panel.height),
@@ -396,6 +406,7 @@ impl Scene {
             panel,
             background,
             difference: _,
+            renderer: _,
         } = self;
         *version == other.version
             && *mesh == other.mesh

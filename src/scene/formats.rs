@@ -15,8 +15,28 @@ use serde_json::Value;
 /// The format this build writes: the scene JSON `version` and the link prefix.
 pub const FORMAT: u32 = 1;
 
+/// The revision of the pixels this build draws. It is raised with every deliberate change that
+/// alters pixels (the golden images re-blessed in the same change); scenes, links, sheets and
+/// metrics record it, and a scene made under an older revision opens with a notice that its
+/// pixels may differ from when it was made. Raising it changes the scene's defaults, so it
+/// comes with a new format.
+pub const RENDERER_REVISION: u32 = 1;
+
+/// The notice for a scene made under renderer revision `made` and shown by this build, or
+/// `None` when the revisions agree.
+pub fn revision_notice(made: u32, current: u32) -> Option<String> {
+    (made != current).then(|| {
+        format!(
+            "This scene was made with renderer revision {made}; this build draws revision \
+             {current}, so its pixels may differ from when it was made."
+        )
+    })
+}
+
 /// Format 1 (every build up to and including this one): the scene JSON of the defaults. The
-/// shading modes were then called `gouraud` and `phong`; both spellings are read.
+/// shading modes were once called `gouraud` and `phong`; both spellings are read. Records of
+/// format 1 made before scenes recorded their renderer revision were all made under
+/// revision 1, which the table fills in.
 const FORMAT_1: &str = r##"{
     "version": 1,
     "mesh": {
@@ -91,6 +111,7 @@ const FORMAT_1: &str = r##"{
         "height": 360
     },
     "background": "#1b1d22",
+    "renderer": 1,
     "difference": {
         "pair": [
             "per_vertex",

@@ -8,7 +8,7 @@ pub(crate) mod presets;
 pub(crate) mod settings;
 
 pub use definition::{axis_angle, Scene, SceneError, ValidScene, SCENE_VERSION};
-pub use formats::FORMAT;
+pub use formats::{revision_notice, FORMAT, RENDERER_REVISION};
 pub use link::{decode, encode, LinkError};
 pub use presets::{preset, presets, Preset};
 pub use settings::{

@@ -34,7 +34,9 @@ export async function copyLink() {
 export function openFromAddress() {
   if (!location.hash.startsWith("#s=")) return;
   try {
-    app.viewer.setSceneFromLink(location.hash.slice(3));
+    // A link made under an older renderer revision opens with a notice.
+    const notice = app.viewer.setSceneFromLink(location.hash.slice(3));
+    if (notice) showProblem(notice);
   } catch (e) {
     showProblem(`${says(e)}. Showing the default scene.`);
   }
