@@ -82,6 +82,12 @@ fn format_defaults(n: u32) -> Option<Value> {
     Some(scene_value(&scene))
 }
 
+/// The current format's defaults, made once: the page encodes its link after every full frame.
+fn current_defaults() -> &'static Value {
+    static CURRENT: std::sync::OnceLock<Value> = std::sync::OnceLock::new();
+    CURRENT.get_or_init(|| format_defaults(FORMAT).unwrap_or(Value::Null))
+}
+
 fn scene_value(scene: &Scene) -> Value {
     // A scene is plain data with string keys: conversion cannot fail.
     without_panel(serde_json::to_value(scene).unwrap_or(Value::Null))
@@ -89,8 +95,8 @@ fn scene_value(scene: &Scene) -> Value {
 
 /// The link text (URL fragment payload) for a scene.
 pub fn encode(scene: &Scene) -> String {
-    let base = format_defaults(FORMAT).unwrap_or(Value::Null);
-    let d = diff(&scene_value(scene), &base).unwrap_or_else(|| Value::Object(Map::new()));
+    let d =
+        diff(&scene_value(scene), current_defaults()).unwrap_or_else(|| Value::Object(Map::new()));
     let json = d.to_string();
     let packed = miniz_oxide::deflate::compress_to_vec_zlib(json.as_bytes(), 9);
     format!("{FORMAT}.{}", URL_SAFE_NO_PAD.encode(packed))

@@ -8,7 +8,8 @@ import { updateLink } from "./link.js";
 // CIEDE2000 comparison (the costliest part of a frame) follows once the drag pauses.
 const SETTLE_MS = 150;
 
-export const canvases = () => [...document.querySelectorAll("canvas[data-panel]")];
+/** The panel canvases (the page's markup holds them from the start; looked up once). */
+export const canvases = () => (app.canvases ??= [...document.querySelectorAll("canvas[data-panel]")]);
 
 /** Asks for a frame; `fast` renders only the shading panels (during a drag). */
 export function requestRender(fast = false) {

@@ -8,6 +8,7 @@ export const app = {
   Viewer: null, // the Viewer class (its static functions: vocabulary, presets, shapes)
   viewer: null, // the Viewer: scene, renderer, panels
   vocab: null, // facts from the wasm module (Viewer.vocabulary())
+  canvases: null, // the panel canvases, looked up once (loop.js)
   embed: false, // ?embed: panels and legend only
   fitToLayout: true, // false with ?size=WxH
   lastFrameMs: 0,
