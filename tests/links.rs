@@ -355,3 +355,24 @@ fn records_carry_the_renderer_revision() {
         "{lines:?}"
     );
 }
+
+#[test]
+fn links_made_by_the_build_before_frozen_formats_open_unchanged() {
+    // Printed by `twinshade scene --file edited.json --link` of build d5cfa4a (before this
+    // build froze the formats and renamed the panels), for the scene file below. The same
+    // build's `render --size 120x90` PNGs were byte-identical to this build's
+    // `render --from-link` of the link (checked once, when the link was recorded).
+    const OLD: &str = "#s=1.eNolzdEKwjAMQNF_ia9D5hSU_orIyNpsC2StJNsQRv_dVp8vh3uAx4UUwR2gSaQPNIG7tuc2NxB4HEkpeqr5jazgnjClTXEL0AB90K_wamCdlWxOEsB1P7ngSsoo1Q1o1PskqWg4DY_bvRsLtpkjRzKru__PtiHwzsYpVii0k5R8yfkLIkI3Ow";
+    let file = r##"{"material": {"base_color": "#b8472f", "shininess": 300}, "difference": {"pair": ["gouraud", "exact"], "threshold": 2.0}, "camera": {"roll_deg": 30}, "subdivision": {"levels": 1}}"##;
+    let from_file = Scene::from_json(file).expect("the scene file");
+    let from_link = decode(OLD, PANEL).expect("the old link opens");
+    let expected = Scene {
+        panel: PANEL,
+        ..from_file.scene().clone()
+    };
+    assert_eq!(*from_link.scene(), expected);
+    assert_eq!(
+        from_link.difference.pair,
+        [ShadingMode::PerVertex, ShadingMode::Exact]
+    );
+}
