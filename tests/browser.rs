@@ -228,6 +228,21 @@ async fn page_end_to_end() {
     let errors = eval(&c, "return window.twinshadeErrors").await;
     assert_eq!(errors, json!([]), "console errors on load");
 
+    // The page's build ships the scene schema beside the module, as `scene --schema` prints it.
+    let shipped = c
+        .execute_async(
+            "const done = arguments[arguments.length - 1];
+             fetch('pkg/scene.schema.json').then(r => r.text()).then(done, e => done('' + e));",
+            vec![],
+        )
+        .await
+        .expect("fetch the schema");
+    assert_eq!(
+        shipped.as_str().map(str::trim_end),
+        Some(twinshade::scene::scene_schema_text().as_str()),
+        "pkg/scene.schema.json"
+    );
+
     // Both panels are drawn at the requested size, and differ where the highlight is.
     let (w, h, gouraud) = canvas(&c, "per_vertex").await;
     let (_, _, phong) = canvas(&c, "per_pixel").await;

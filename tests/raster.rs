@@ -65,6 +65,71 @@ fn top_left_rule_worked_example() {
     assert_eq!(c.draw::<false>([s(0., 5.), s(0., 0.), s(5., 5.)]), 10);
 }
 
+/// The covered pixels of an 8x8 canvas as rows of `#` (covered) and `.`.
+fn mask(c: &Canvas) -> Vec<String> {
+    (0..c.h)
+        .map(|y| {
+            (0..c.w)
+                .map(|x| {
+                    if c.color[y * c.w + x] == u32::MAX {
+                        '.'
+                    } else {
+                        '#'
+                    }
+                })
+                .collect()
+        })
+        .collect()
+}
+
+#[test]
+fn top_left_rule_worked_example_pixel_sets() {
+    // The same two triangles as above, pixel by pixel. The sets are derived here from the
+    // rule as the Direct3D 11 "Rasterization Rules" state it (a centre on an edge is inside
+    // only for a top or a left edge; y grows downward), not copied from the documentation's
+    // figure, which was not at hand. Triangle 1: its top edge y = 0 and its left edge, the
+    // diagonal, are inside; the right edge x = 5 is not. Triangle 2: its left edge x = 0 is
+    // inside; the diagonal (now its right edge) and the bottom edge y = 5 are not.
+    let s = |x: f32, y: f32| (x + 0.5, y + 0.5, 0.0, 1.0, 0.0);
+    let rows = |r: [&str; 8]| r.map(String::from).to_vec();
+    let first = rows([
+        "#####...", ".####...", "..###...", "...##...", "....#...", "........", "........",
+        "........",
+    ]);
+    let second = rows([
+        "........", "#.......", "##......", "###.....", "####....", "........", "........",
+        "........",
+    ]);
+    // A top-right rule covers the same number of pixels (15) but not the same ones: the test
+    // tells the two apart only because it compares sets.
+    let top_right = rows([
+        ".#####..", "..####..", "...###..", "....##..", ".....#..", "........", "........",
+        "........",
+    ]);
+    let count = |m: &[String]| m.iter().map(|r| r.matches('#').count()).sum::<usize>();
+    assert_eq!((count(&first), count(&top_right)), (15, 15));
+    assert_ne!(first, top_right);
+    // Either winding gives the same set.
+    for order in [[0, 1, 2], [0, 2, 1]] {
+        let t1 = [s(0., 0.), s(5., 0.), s(5., 5.)];
+        let mut c = Canvas::new(8, 8);
+        c.draw::<false>(order.map(|i| t1[i]));
+        assert_eq!(
+            mask(&c),
+            first,
+            "triangle (0,0),(5,0),(5,5), order {order:?}"
+        );
+        let t2 = [s(0., 5.), s(0., 0.), s(5., 5.)];
+        let mut c = Canvas::new(8, 8);
+        c.draw::<false>(order.map(|i| t2[i]));
+        assert_eq!(
+            mask(&c),
+            second,
+            "triangle (0,5),(0,0),(5,5), order {order:?}"
+        );
+    }
+}
+
 #[test]
 fn shared_edges_cover_every_pixel_exactly_once_at_any_roll() {
     // Vulkan specification, "Basic Polygon Rasterization": a sample on an edge shared by two

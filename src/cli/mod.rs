@@ -130,6 +130,9 @@ enum Command {
         /// Print the link fragment (`#s=...`) for the page instead of JSON.
         #[arg(long)]
         link: bool,
+        /// Print the JSON Schema of scene files instead of a scene.
+        #[arg(long, conflicts_with_all = ["default", "file", "preset", "from_link", "link"])]
+        schema: bool,
     },
     /// List the built-in presets with their captions.
     Presets,
@@ -317,7 +320,12 @@ fn run(command: Command) -> Result<(), String> {
             preset,
             from_link,
             link,
+            schema,
         } => {
+            if schema {
+                println!("{}", twinshade::scene::scene_schema_text());
+                return Ok(());
+            }
             let scene = match (default, file, preset) {
                 _ if from_link.is_some() => {
                     scene_from_link(from_link.as_deref().unwrap_or_default(), None)?
@@ -329,7 +337,8 @@ fn run(command: Command) -> Result<(), String> {
                 (true, None, None) => Scene::default(),
                 (false, None, None) => {
                     return Err(
-                        "say --default, --file FILE, --preset ID or --from-link TEXT".into(),
+                        "say --default, --file FILE, --preset ID, --from-link TEXT or --schema"
+                            .into(),
                     )
                 }
             };

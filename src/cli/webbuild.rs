@@ -45,7 +45,8 @@ fn ensure_target() -> Result<(), String> {
     }
 }
 
-/// Compiles the crate to wasm and writes `twinshade.js` and `twinshade_bg.wasm` to `out_pkg`.
+/// Compiles the crate to wasm and writes `twinshade.js` and `twinshade_bg.wasm` to `out_pkg`,
+/// with the scene schema beside them (`scene.schema.json`).
 ///
 /// # Errors
 /// When the target cannot be added, cargo fails, or the glue cannot be generated.
@@ -78,7 +79,10 @@ pub fn build_wasm_pkg(root: &Path, out_pkg: &Path) -> Result<(), String> {
         // on `init()` finding `twinshade_bg.wasm` beside the glue.
         .omit_default_module_path(false)
         .generate(out_pkg)
-        .map_err(|e| format!("generating the JavaScript glue failed: {e}"))
+        .map_err(|e| format!("generating the JavaScript glue failed: {e}"))?;
+    let schema = out_pkg.join("scene.schema.json");
+    std::fs::write(&schema, twinshade::scene::scene_schema_text() + "\n")
+        .map_err(|e| format!("cannot write {}: {e}", schema.display()))
 }
 
 /// Writes a self-contained static copy of the page (www/ plus the built module) to `out`.

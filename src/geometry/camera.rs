@@ -6,10 +6,11 @@
 //! are degrees in the scene and go through `libm` for the same result on every target.
 
 use glam::{Mat4, Vec3, Vec4};
+use schemars::JsonSchema;
 use serde::{Deserialize, Serialize};
 
 /// Perspective or orthographic projection.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default)]
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default, JsonSchema)]
 #[serde(rename_all = "lowercase")]
 pub enum Projection {
     /// Pinhole perspective with a vertical field of view.
@@ -20,24 +21,28 @@ pub enum Projection {
 }
 
 /// An orbit camera around the origin.
-#[derive(Clone, Copy, Debug, PartialEq, Serialize, Deserialize)]
+#[derive(Clone, Copy, Debug, PartialEq, Serialize, Deserialize, JsonSchema)]
 #[serde(default, deny_unknown_fields)]
 pub struct Camera {
     /// Projection kind.
     pub projection: Projection,
     /// Vertical field of view in degrees (perspective), 1..=150.
+    #[schemars(range(min = 1.0, max = 150.0))]
     pub fov_y_deg: f32,
     /// Visible height in world units (orthographic), > 0.
+    #[schemars(extend("exclusiveMinimum" = 0))]
     pub ortho_height: f32,
     /// Orbit angle about +y, degrees; 0 puts the eye on +z.
     pub yaw_deg: f32,
     /// Orbit elevation, degrees, -89..=89.
+    #[schemars(range(min = -89.0, max = 89.0))]
     pub pitch_deg: f32,
     /// Eye distance from the origin, world units, > near.
     pub distance: f32,
     /// Roll of the view about its axis, degrees; positive turns the picture counter-clockwise.
     pub roll_deg: f32,
     /// Near plane distance, > 0.
+    #[schemars(extend("exclusiveMinimum" = 0))]
     pub near: f32,
     /// Far plane distance, > near.
     pub far: f32,

@@ -13,7 +13,7 @@ mod obj;
 mod ply;
 mod stl;
 
-use crate::geometry::mesh::{Mesh, MeshError, MAX_TRIANGLES};
+use crate::geometry::mesh::{Fit, Mesh, MeshError, MAX_TRIANGLES};
 use serde::Serialize;
 use std::fmt;
 
@@ -118,6 +118,8 @@ pub struct Imported {
     pub dropped_faces: usize,
     /// True when every corner had an authored normal.
     pub has_normals: bool,
+    /// How the mesh was centred and scaled (maps positions back to the file's).
+    pub fit: Fit,
 }
 
 /// Counts reported for an imported mesh (page and `--metrics`).
@@ -256,13 +258,14 @@ pub fn import(name: &str, bytes: &[u8]) -> Result<Imported, ImportError> {
             other => other.to_string(),
         }))
     })?;
-    mesh.fit_unit();
+    let fit = mesh.fit_unit();
     let has_normals = mesh.has_normals();
     Ok(Imported {
         mesh,
         format,
         dropped_faces,
         has_normals,
+        fit,
     })
 }
 

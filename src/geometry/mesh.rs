@@ -21,6 +21,28 @@ pub struct Corner {
     pub normal: u32,
 }
 
+/// How [`Mesh::fit_unit`] moved a mesh: fitted = (authored - `centre`) x `scale`.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Fit {
+    /// The authored bounding-box centre, moved to the origin.
+    pub centre: Vec3,
+    /// The uniform scale applied after the move.
+    pub scale: f32,
+}
+
+impl Fit {
+    /// No move, no scale.
+    pub const IDENTITY: Fit = Fit {
+        centre: Vec3::ZERO,
+        scale: 1.0,
+    };
+
+    /// The authored position of a fitted one.
+    pub fn authored(&self, fitted: Vec3) -> Vec3 {
+        fitted / self.scale + self.centre
+    }
+}
+
 /// A polygon mesh. Invariant after [`Mesh::validate`]: every index is in range, every
 /// coordinate finite, every face has at least three corners.
 #[derive(Clone, Debug, Default, PartialEq)]
@@ -223,10 +245,11 @@ impl Mesh {
     }
 
     /// Moves the bounding-box centre to the origin and scales so the farthest vertex is at
-    /// distance 1. Normals are unchanged (uniform scale). Returns the scale applied.
-    pub fn fit_unit(&mut self) -> f32 {
+    /// distance 1. Normals are unchanged (uniform scale). Returns the fit applied, which maps
+    /// the new positions back to the authored ones.
+    pub fn fit_unit(&mut self) -> Fit {
         let Some((lo, hi)) = self.bounds() else {
-            return 1.0;
+            return Fit::IDENTITY;
         };
         let centre = (lo + hi) * 0.5;
         let r = self
@@ -234,11 +257,11 @@ impl Mesh {
             .iter()
             .map(|p| (*p - centre).length())
             .fold(0.0f32, f32::max);
-        let s = if r > 0.0 { 1.0 / r } else { 1.0 };
+        let scale = if r > 0.0 { 1.0 / r } else { 1.0 };
         for p in &mut self.positions {
-            *p = (*p - centre) * s;
+            *p = (*p - centre) * scale;
         }
-        s
+        Fit { centre, scale }
     }
 
     /// Removes faces whose corners span no area (repeated positions, collinear corners);

@@ -16,10 +16,11 @@
 
 use crate::geometry::mesh::{polygon_area_vector, Corner, Mesh};
 use glam::Vec3;
+use schemars::JsonSchema;
 use serde::{Deserialize, Serialize};
 
 /// How face normals are weighted into a vertex normal.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default)]
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default, JsonSchema)]
 #[serde(rename_all = "lowercase")]
 pub enum NormalWeighting {
     /// By face area.

@@ -6,30 +6,36 @@
 
 use crate::geometry::mesh::{Corner, Mesh};
 use glam::{DVec3, Vec3};
+use schemars::JsonSchema;
 use serde::{Deserialize, Serialize};
 use std::f64::consts::PI;
 
 /// A procedural shape and its resolution.
-#[derive(Clone, Copy, Debug, PartialEq, Serialize, Deserialize)]
+#[derive(Clone, Copy, Debug, PartialEq, Serialize, Deserialize, JsonSchema)]
 #[serde(tag = "kind", rename_all = "snake_case")]
 pub enum Shape {
     /// Icosahedron refined by midpoint subdivision projected to the sphere; `level` 0..=7.
     Icosphere {
         /// Subdivision level, 0..=7 (20 * 4^level triangles).
+        #[schemars(range(min = 0, max = 7))]
         level: u32,
     },
     /// Latitude/longitude sphere: triangles at the poles, quads elsewhere.
     UvSphere {
         /// Latitude bands, 2..=256.
+        #[schemars(range(min = 2, max = 256))]
         rings: u32,
         /// Longitude segments, 3..=512.
+        #[schemars(range(min = 3, max = 512))]
         segments: u32,
     },
     /// Ring torus, major radius 0.7, tube radius 0.3, quads.
     Torus {
         /// Segments around the main axis, 3..=512.
+        #[schemars(range(min = 3, max = 512))]
         rings: u32,
         /// Segments around the tube, 3..=256.
+        #[schemars(range(min = 3, max = 256))]
         segments: u32,
     },
     /// Cube with hard edges: six quads with split (per-face) normals.
@@ -37,13 +43,16 @@ pub enum Shape {
     /// A square grid of quads over a gentle height field, facing +z.
     QuadGrid {
         /// Cells per side, 1..=512.
+        #[schemars(range(min = 1, max = 512))]
         cells: u32,
     },
     /// A closed vase-like surface of revolution about +y; triangles at the poles, quads elsewhere.
     Vase {
         /// Bands along the profile, 2..=256.
+        #[schemars(range(min = 2, max = 256))]
         rings: u32,
         /// Segments around the axis, 3..=512.
+        #[schemars(range(min = 3, max = 512))]
         segments: u32,
     },
 }

@@ -20,11 +20,12 @@
 
 use crate::geometry::mesh::{Corner, Mesh, MAX_TRIANGLES};
 use glam::Vec3;
+use schemars::JsonSchema;
 use serde::{Deserialize, Serialize};
 use std::collections::HashMap;
 
 /// How a mesh is subdivided.
-#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Hash, Serialize, Deserialize)]
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Hash, Serialize, Deserialize, JsonSchema)]
 #[serde(rename_all = "snake_case")]
 pub enum SubdivisionMethod {
     /// Points on the original flat faces, normals interpolated.
@@ -35,12 +36,13 @@ pub enum SubdivisionMethod {
 }
 
 /// Subdivision settings of a scene.
-#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Hash, Serialize, Deserialize)]
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Hash, Serialize, Deserialize, JsonSchema)]
 #[serde(default, deny_unknown_fields)]
 pub struct Subdivision {
     /// The method.
     pub method: SubdivisionMethod,
     /// Levels, 0..=[`MAX_LEVELS`]; each multiplies the triangle count by 4.
+    #[schemars(range(max = MAX_LEVELS))]
     pub levels: u32,
 }
 

@@ -8,6 +8,7 @@
 
 use crate::geometry::mesh::Mesh;
 use glam::Vec3;
+use schemars::JsonSchema;
 use serde::{Deserialize, Serialize};
 use std::collections::HashMap;
 
@@ -16,7 +17,7 @@ use std::collections::HashMap;
 pub const MAX_CORNERS: usize = 32;
 
 /// How faces with more than three corners are drawn. Triangles always take the triangle path.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, Serialize, Deserialize, Default)]
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, Serialize, Deserialize, Default, JsonSchema)]
 #[serde(rename_all = "snake_case")]
 pub enum PolygonMode {
     /// Split as authored: a fan from each face's first corner in the file's corner order, so

@@ -16,6 +16,7 @@ use crate::scene::settings::{
 use crate::shading::color::Rgb;
 use crate::shading::lighting::{Light, LightKind, Material, ReflectionModel, MAX_LIGHTS};
 use glam::Quat;
+use schemars::JsonSchema;
 use serde::{Deserialize, Serialize};
 use std::fmt;
 
@@ -23,10 +24,11 @@ use std::fmt;
 pub const SCENE_VERSION: u32 = formats::FORMAT;
 
 /// Everything that decides the pixels.
-#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize, JsonSchema)]
 #[serde(default, deny_unknown_fields)]
 pub struct Scene {
     /// Format version, 1..=[`SCENE_VERSION`].
+    #[schemars(range(min = 1, max = SCENE_VERSION))]
     pub version: u32,
     /// The mesh.
     pub mesh: MeshSource,
@@ -42,6 +44,7 @@ pub struct Scene {
     /// The mesh's rotation as a quaternion (x, y, z, w); normalised on use.
     pub rotation: [f32; 4],
     /// Up to [`MAX_LIGHTS`] lights, fixed in world space.
+    #[schemars(length(max = MAX_LIGHTS))]
     pub lights: Vec<Light>,
     /// Ambient light colour, sRGB `#rrggbb`.
     pub ambient_light: Rgb,
@@ -61,6 +64,7 @@ pub struct Scene {
     pub difference: DifferenceSettings,
     /// The renderer revision the scene was made under, 1..=[`RENDERER_REVISION`] (see
     /// [`revision_notice`](crate::scene::revision_notice)).
+    #[schemars(range(min = 1, max = RENDERER_REVISION))]
     pub renderer: u32,
 }
 

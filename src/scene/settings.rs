@@ -4,13 +4,14 @@
 
 use crate::geometry::normals::NormalWeighting;
 use crate::geometry::shapes::Shape;
+use schemars::JsonSchema;
 use serde::{Deserialize, Serialize};
 
 /// Largest panel side in pixels.
 pub const MAX_PANEL_SIDE: u32 = 4096;
 
 /// Where the mesh comes from.
-#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize, JsonSchema)]
 #[serde(rename_all = "snake_case")]
 pub enum MeshSource {
     /// A procedural shape.
@@ -19,12 +20,13 @@ pub enum MeshSource {
     /// the scene only names it.
     File {
         /// The file name, for display and links.
+        #[schemars(length(min = 1))]
         name: String,
     },
 }
 
 /// Use the mesh's own normals or compute them.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default)]
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default, JsonSchema)]
 #[serde(rename_all = "lowercase")]
 pub enum NormalSource {
     /// Authored normals where every corner has one; computed otherwise.
@@ -35,7 +37,7 @@ pub enum NormalSource {
 }
 
 /// How vertex normals are obtained.
-#[derive(Clone, Copy, Debug, PartialEq, Serialize, Deserialize)]
+#[derive(Clone, Copy, Debug, PartialEq, Serialize, Deserialize, JsonSchema)]
 #[serde(default, deny_unknown_fields)]
 pub struct NormalSettings {
     /// Authored or computed.
@@ -43,6 +45,7 @@ pub struct NormalSettings {
     /// Weights when computing.
     pub weighting: NormalWeighting,
     /// Crease angle in degrees when computing (180 = smooth everything).
+    #[schemars(range(min = 0.0, max = 180.0))]
     pub crease_deg: f32,
 }
 
@@ -57,12 +60,14 @@ impl Default for NormalSettings {
 }
 
 /// Panel size in pixels (each panel; all panels have the same size).
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, JsonSchema)]
 #[serde(deny_unknown_fields)]
 pub struct PanelSize {
     /// Width in pixels, 1..=[`MAX_PANEL_SIDE`].
+    #[schemars(range(min = 1, max = MAX_PANEL_SIDE))]
     pub width: u32,
     /// Height in pixels, 1..=[`MAX_PANEL_SIDE`].
+    #[schemars(range(min = 1, max = MAX_PANEL_SIDE))]
     pub height: u32,
 }
 
@@ -79,7 +84,7 @@ impl Default for PanelSize {
 ///
 /// In JSON: `flat`, `per_vertex`, `per_pixel`, `exact`; `gouraud` and `phong`, the names of
 /// earlier builds, are still read.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Hash, Default)]
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Hash, Default, JsonSchema)]
 #[serde(rename_all = "snake_case")]
 pub enum ShadingMode {
     /// One colour per face.
@@ -136,14 +141,17 @@ impl ShadingMode {
 }
 
 /// Settings of the difference view, shared by the page and the command line.
-#[derive(Clone, Copy, Debug, PartialEq, Serialize, Deserialize)]
+#[derive(Clone, Copy, Debug, PartialEq, Serialize, Deserialize, JsonSchema)]
 #[serde(default, deny_unknown_fields)]
 pub struct DifferenceSettings {
     /// The two shadings compared (A, B); any two of per-vertex, per-pixel and exact.
+    #[schemars(extend("uniqueItems" = true))]
     pub pair: [ShadingMode; 2],
     /// The "just noticeable" threshold in dE00 (1.0 by common practice).
+    #[schemars(range(min = 0.01, max = 100.0))]
     pub threshold: f32,
     /// dE00 at the top of the colour scale.
+    #[schemars(range(min = 0.1, max = 200.0))]
     pub scale_max: f32,
 }
 

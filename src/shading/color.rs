@@ -280,3 +280,17 @@ impl<'de> serde::Deserialize<'de> for Rgb {
         text.parse().map_err(serde::de::Error::custom)
     }
 }
+
+impl schemars::JsonSchema for Rgb {
+    fn schema_name() -> std::borrow::Cow<'static, str> {
+        "Rgb".into()
+    }
+
+    fn json_schema(_: &mut schemars::SchemaGenerator) -> schemars::Schema {
+        schemars::json_schema!({
+            "description": "An 8-bit sRGB colour, `#rrggbb` (the `#` may be left out).",
+            "type": "string",
+            "pattern": "^#?[0-9a-fA-F]{6}$"
+        })
+    }
+}

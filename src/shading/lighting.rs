@@ -14,13 +14,14 @@ use crate::geometry::camera::CameraFrame;
 use crate::shading::color::Rgb;
 use crate::shading::lanes::{F4, V4};
 use glam::Vec3;
+use schemars::JsonSchema;
 use serde::{Deserialize, Serialize};
 
 /// At most this many lights are used.
 pub const MAX_LIGHTS: usize = 4;
 
 /// The reflection model of the specular term.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default)]
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default, JsonSchema)]
 #[serde(rename_all = "snake_case")]
 pub enum ReflectionModel {
     /// Phong 1975: reflection vector.
@@ -31,7 +32,7 @@ pub enum ReflectionModel {
 }
 
 /// Directional or point light.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default)]
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default, JsonSchema)]
 #[serde(rename_all = "lowercase")]
 pub enum LightKind {
     /// Parallel light from a direction.
@@ -42,7 +43,7 @@ pub enum LightKind {
 }
 
 /// Dielectric (light-coloured highlights) or metal (base-tinted highlights).
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default)]
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default, JsonSchema)]
 #[serde(rename_all = "lowercase")]
 pub enum Finish {
     /// Plastic, glaze, paint: highlight in the light's colour.
@@ -53,7 +54,7 @@ pub enum Finish {
 }
 
 /// A light fixed in world space.
-#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize, JsonSchema)]
 #[serde(default, deny_unknown_fields)]
 pub struct Light {
     /// Directional or point.
@@ -61,14 +62,18 @@ pub struct Light {
     /// Direction toward the light, degrees about +y from +z (toward +x).
     pub azimuth_deg: f32,
     /// Elevation of the direction toward the light, degrees above the xz plane.
+    #[schemars(range(min = -90.0, max = 90.0))]
     pub elevation_deg: f32,
     /// Point lights: distance of the light from the origin along that direction.
+    #[schemars(range(min = 0.0, max = 1000.0))]
     pub distance: f32,
     /// Colour, sRGB `#rrggbb`.
     pub color: Rgb,
     /// Multiplier of the colour (linear).
+    #[schemars(range(min = 0.0, max = 100.0))]
     pub intensity: f32,
     /// Point lights: k in 1 / (1 + k d^2), d in world units.
+    #[schemars(range(min = 0.0, max = 100.0))]
     pub falloff: f32,
 }
 
@@ -102,22 +107,27 @@ impl Light {
 }
 
 /// Surface reflectance.
-#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize, JsonSchema)]
 #[serde(default, deny_unknown_fields)]
 pub struct Material {
     /// Base (diffuse) colour, sRGB `#rrggbb`.
     pub base_color: Rgb,
     /// Ambient reflectance, times the base colour and the ambient light.
+    #[schemars(range(min = 0.0, max = 10.0))]
     pub ambient: f32,
     /// Diffuse reflectance, times the base colour.
+    #[schemars(range(min = 0.0, max = 10.0))]
     pub diffuse: f32,
     /// Specular reflectance.
+    #[schemars(range(min = 0.0, max = 10.0))]
     pub specular: f32,
     /// Specular exponent, 1..=2048.
+    #[schemars(range(min = 1.0, max = 2048.0))]
     pub shininess: f32,
     /// Emitted colour, sRGB `#rrggbb`.
     pub emissive: Rgb,
     /// Multiplier of the emitted colour (linear).
+    #[schemars(range(min = 0.0, max = 100.0))]
     pub emissive_strength: f32,
     /// Dielectric or metal highlights.
     pub finish: Finish,

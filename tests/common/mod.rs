@@ -5,6 +5,8 @@
 
 use std::path::PathBuf;
 
+pub mod fixtures;
+
 #[path = "../../src/cli/png_out.rs"]
 mod png_out;
 pub use png_out::{read_png, write_png};
