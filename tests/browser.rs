@@ -802,6 +802,39 @@ async fn page_end_to_end() {
     let missing: Vec<&String> = wanted.iter().filter(|w| !reached.contains(*w)).collect();
     assert!(missing.is_empty(), "not reachable with Tab: {missing:?}");
 
+    // Every stored link (tests/links/corpus.json) opens in the page to the pixels recorded
+    // with it: the same FNV-1a hash of the three panels as tests/links.rs computes natively.
+    let corpus: Value = serde_json::from_str(
+        &std::fs::read_to_string(
+            std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/links/corpus.json"),
+        )
+        .expect("tests/links/corpus.json"),
+    )
+    .expect("corpus JSON");
+    let entries = corpus["entries"].as_array().expect("entries");
+    let size = &corpus["panel"];
+    for entry in entries {
+        let link = entry["link"].as_str().expect("link");
+        c.goto("about:blank").await.expect("leave");
+        c.goto(&format!("{url}?size={}x{}#s={link}", size[0], size[1]))
+            .await
+            .expect("open the stored link");
+        wait_ready(&c).await;
+        let mut h: u64 = 0xcbf2_9ce4_8422_2325;
+        for panel in ["per_vertex", "per_pixel", "difference"] {
+            for b in canvas(&c, panel).await.2 {
+                h ^= u64::from(b);
+                h = h.wrapping_mul(0x0000_0100_0000_01b3);
+            }
+        }
+        assert_eq!(
+            json!(format!("{h:016x}")),
+            entry["pixels_fnv1a64"],
+            "stored link {} in the page",
+            entry["name"]
+        );
+    }
+
     // Embed mode in a 480x320 frame: panels shown, no scrollbars, a link to the full page.
     c.goto(&url).await.expect("open the page");
     wait_ready(&c).await;
