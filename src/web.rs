@@ -16,6 +16,9 @@ use crate::geometry::subdivide::{SubdivisionMethod, MAX_LEVELS};
 use crate::scene::definition::{Scene, ValidScene};
 use crate::scene::formats::{revision_notice, RENDERER_REVISION};
 use crate::scene::settings::{MeshSource, ShadingMode, MAX_PANEL_SIDE};
+use crate::shading::lighting::{
+    blinn_exponent_for_roughness, roughness_for_blinn_exponent, ReflectionModel, MIN_ROUGHNESS,
+};
 use wasm_bindgen::prelude::*;
 
 fn js_error(msg: impl std::fmt::Display) -> JsValue {
@@ -107,9 +110,16 @@ impl Viewer {
             short: &'static str,
         }
         #[derive(serde::Serialize)]
+        struct Model {
+            id: &'static str,
+            label: &'static str,
+        }
+        #[derive(serde::Serialize)]
         struct Vocabulary {
             panels: Vec<&'static str>,
             modes: Vec<Mode>,
+            models: Vec<Model>,
+            min_roughness: f32,
             shapes: [DetailControl; 6],
             sweep_axes: Vec<String>,
             sweep_metrics: Vec<String>,
@@ -128,6 +138,14 @@ impl Viewer {
                     short: m.short(),
                 })
                 .collect(),
+            models: ReflectionModel::ALL
+                .iter()
+                .map(|m| Model {
+                    id: m.id(),
+                    label: m.label(),
+                })
+                .collect(),
+            min_roughness: MIN_ROUGHNESS,
             shapes: Shape::DETAIL,
             sweep_axes: names(&[SweepAxis::Turntable, SweepAxis::Roll]),
             sweep_metrics: names(&[
@@ -161,6 +179,19 @@ impl Viewer {
             JsValue::from(shape.detail()),
             JsValue::from(shape.detail_text()),
         ])
+    }
+
+    /// The Blinn-Phong exponent comparable to a metallic-roughness `roughness`
+    /// (n = 2 / alpha^2 - 2, alpha = roughness^2).
+    #[wasm_bindgen(js_name = blinnExponentForRoughness)]
+    pub fn blinn_exponent_for_roughness(roughness: f32) -> f32 {
+        blinn_exponent_for_roughness(roughness)
+    }
+
+    /// The roughness comparable to a Blinn-Phong exponent (the inverse of the above).
+    #[wasm_bindgen(js_name = roughnessForBlinnExponent)]
+    pub fn roughness_for_blinn_exponent(n: f32) -> f32 {
+        roughness_for_blinn_exponent(n)
     }
 
     /// The built-in default scene as JSON.

@@ -412,7 +412,7 @@ async fn page_end_to_end() {
     let href = eval(&c, "return location.href").await;
     let href = href.as_str().expect("href").to_string();
     assert!(
-        href.contains("#s=1."),
+        href.contains(&format!("#s={}.", twinshade::scene::FORMAT)),
         "the address holds the scene: {href}"
     );
     c.goto("about:blank").await.expect("leave");

@@ -5,7 +5,7 @@ use glam::Vec3;
 use twinshade::geometry::Shape;
 use twinshade::geometry::{import, Format, Location};
 use twinshade::geometry::{Mesh, MeshError, MAX_TRIANGLES};
-use twinshade::scene::{MeshSource, PanelSize};
+use twinshade::scene::{GltfNormals, MeshSource, PanelSize};
 use twinshade::{Framebuffer, Renderer, Scene, ShadingMode};
 mod common;
 use common::fixtures::{gltf_files, ply_files, three_files, CUBE_OBJ};
@@ -42,6 +42,59 @@ fn obj_negative_indices_polygons_and_objects_merge() {
     assert_eq!(m.mesh.face(0).len(), 5, "the pentagon stays a polygon");
     assert_eq!(m.mesh.triangle_count(), 4);
     assert!(!m.has_normals);
+}
+
+#[test]
+fn gltf_without_normals_is_shaded_flat_unless_the_user_asks_for_smooth() {
+    // glTF 2.0, 3.7.2.1: "When normals are not specified, client implementations MUST
+    // calculate flat normals". Per-vertex lighting of flat normals gives every triangle one
+    // colour (its three corners share the face normal and, with a directional light and an
+    // orthographic view, the same light).
+    let shape = Shape::Icosphere { level: 1 }.build();
+    let (_, glb) = gltf_files(&shape, &[[0.0, 0.0, 0.0]]);
+    let m = import("ball.glb", &glb).expect("imports");
+    assert!(!m.has_normals);
+    let render = |normals: GltfNormals| {
+        let mut scene = Scene {
+            mesh: MeshSource::File {
+                name: "ball.glb".into(),
+            },
+            panel: PanelSize {
+                width: 120,
+                height: 90,
+            },
+            ..Scene::default()
+        };
+        scene.normals.gltf_without_normals = normals;
+        scene.camera.projection = twinshade::geometry::Projection::Orthographic;
+        scene.lights.truncate(1);
+        scene.material.specular = 0.0;
+        let mut r = Renderer::new();
+        r.set_file_mesh(m.mesh.clone());
+        let mut fb = Framebuffer::new(0, 0);
+        r.render(
+            &scene.checked().expect("valid"),
+            ShadingMode::PerVertex,
+            &mut fb,
+        )
+        .expect("renders");
+        fb.bytes().to_vec()
+    };
+    let colours = |bytes: &[u8]| {
+        let mut c: Vec<&[u8]> = bytes.chunks_exact(4).collect();
+        c.sort_unstable();
+        c.dedup();
+        c.len()
+    };
+    let (flat, smooth) = (render(GltfNormals::Flat), render(GltfNormals::Smooth));
+    // 80 faces, about half of them in view, plus the background: few colours when flat.
+    assert!(colours(&flat) <= 60, "flat: {} colours", colours(&flat));
+    assert!(
+        colours(&smooth) > 3 * colours(&flat),
+        "smooth: {} colours, flat {}",
+        colours(&smooth),
+        colours(&flat)
+    );
 }
 
 #[test]
@@ -88,7 +141,7 @@ fn the_same_shape_in_eight_files_renders_identical_pixels() {
             (162, 320),
             "{name} counts"
         );
-        let scene = Scene {
+        let mut scene = Scene {
             mesh: MeshSource::File { name: name.into() },
             panel: PanelSize {
                 width: 200,
@@ -96,6 +149,9 @@ fn the_same_shape_in_eight_files_renders_identical_pixels() {
             },
             ..Scene::default()
         };
+        // The files hold no normals; glTF asks for flat ones (checked below), the others
+        // get smooth ones: compared here with smooth normals everywhere.
+        scene.normals.gltf_without_normals = GltfNormals::Smooth;
         let mut r = Renderer::new();
         r.set_file_mesh(m.mesh);
         let mut out = Vec::new();

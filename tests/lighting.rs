@@ -31,7 +31,7 @@ fn specular_power_matches_powf() {
 #[test]
 fn four_lane_lighting_is_bit_identical_to_scalar() {
     // The vectorised path must give exactly the scalar bits (STYLE: one reference, identical
-    // optimised path), for both reflection models, both projections and both light kinds.
+    // optimised path), for every reflection model, both projections and both light kinds.
     use glam::Vec3;
     use twinshade::shading::{Lighting, ReflectionModel};
     use twinshade::shading::{F4, V4};
@@ -43,16 +43,21 @@ fn four_lane_lighting_is_bit_identical_to_scalar() {
         state ^= state << 17;
         (state >> 40) as f32 / (1u64 << 24) as f32 * 2.0 - 1.0
     };
-    for (model, ortho) in [
-        (ReflectionModel::BlinnPhong, false),
-        (ReflectionModel::Phong, false),
-        (ReflectionModel::BlinnPhong, true),
-        (ReflectionModel::Phong, true),
+    for (model, ortho, metallic) in [
+        (ReflectionModel::BlinnPhong, false, 0.0),
+        (ReflectionModel::Phong, false, 0.0),
+        (ReflectionModel::BlinnPhong, true, 0.0),
+        (ReflectionModel::Phong, true, 0.0),
+        (ReflectionModel::MetallicRoughness, false, 0.0),
+        (ReflectionModel::MetallicRoughness, true, 1.0),
+        (ReflectionModel::MetallicRoughness, false, 0.6),
     ] {
         let mut scene = Scene {
             model,
             ..Scene::default()
         };
+        scene.material.metallic = metallic;
+        scene.material.roughness = 0.35;
         if ortho {
             scene.camera.projection = twinshade::geometry::Projection::Orthographic;
         }

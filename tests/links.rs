@@ -59,7 +59,29 @@ fn scenes() -> Vec<(String, Scene)> {
     s.camera.roll_deg = 30.0;
     s.subdivision.levels = 1;
     out.push(("edited: turned, rolled, subdivided".into(), s));
+    let mut s = Scene {
+        model: twinshade::shading::ReflectionModel::MetallicRoughness,
+        ..Scene::default()
+    };
+    s.material.metallic = 0.3;
+    s.material.roughness = 0.42;
+    s.normals.source = twinshade::scene::NormalSource::Computed;
+    s.normals.crease_deg = 50.0;
+    out.push((
+        "edited: metallic-roughness, computed normals with a crease".into(),
+        s,
+    ));
     out
+}
+
+/// The default scene of format 1 as this build reads it: today's defaults where format 1 had
+/// the field, and for fields added later the values that reproduce what format-1 builds did
+/// (computed normals kept seams apart; glTF files without normals were smoothed).
+fn format_1_default() -> Scene {
+    let mut s = Scene::default();
+    s.normals.coincident = twinshade::geometry::Coincident::Separate;
+    s.normals.gltf_without_normals = twinshade::scene::GltfNormals::Smooth;
+    s
 }
 
 fn canonical(scene: &Scene) -> Value {
@@ -71,7 +93,8 @@ fn the_current_format_freezes_todays_defaults() {
     // A changed default must come with a new format number and its own frozen table
     // (src/scene/formats.rs): otherwise every published link would change its meaning.
     let default = Scene::default();
-    let frozen = Scene::from_json("{}").expect("the frozen defaults are a valid scene");
+    let frozen = Scene::from_json(&format!("{{\"version\": {FORMAT}}}"))
+        .expect("the frozen defaults are a valid scene");
     assert_eq!(
         canonical(frozen.scene()),
         canonical(&default),
@@ -95,19 +118,30 @@ fn the_current_format_freezes_todays_defaults() {
 fn stored_links_reopen_to_the_same_scene_and_pixels() {
     let bless = std::env::var("TWINSHADE_BLESS").is_ok_and(|v| v == "1");
     if bless {
-        let entries: Vec<Value> = scenes()
-            .iter()
-            .map(|(name, scene)| {
-                let mut s = scene.clone();
-                s.panel = PANEL;
-                json!({
-                    "name": name,
-                    "link": encode(&s),
-                    "scene": canonical(&s),
-                    "pixels_fnv1a64": pixel_hash(&s),
-                })
-            })
+        // Entries of earlier formats are records too: they stay as they were. Only the
+        // current format's entries are (re)written.
+        let old: Value = std::fs::read_to_string(corpus_path())
+            .ok()
+            .and_then(|t| serde_json::from_str(&t).ok())
+            .unwrap_or_else(|| json!({ "entries": [] }));
+        let current = format!("{FORMAT}.");
+        let mut entries: Vec<Value> = old["entries"]
+            .as_array()
+            .cloned()
+            .unwrap_or_default()
+            .into_iter()
+            .filter(|e| !e["link"].as_str().is_some_and(|l| l.starts_with(&current)))
             .collect();
+        entries.extend(scenes().iter().map(|(name, scene)| {
+            let mut s = scene.clone();
+            s.panel = PANEL;
+            json!({
+                "name": format!("{name} (format {FORMAT})"),
+                "link": encode(&s),
+                "scene": canonical(&s),
+                "pixels_fnv1a64": pixel_hash(&s),
+            })
+        }));
         let text = serde_json::to_string_pretty(&json!({
             "panel": [PANEL.width, PANEL.height],
             "entries": entries,
@@ -131,8 +165,12 @@ fn stored_links_reopen_to_the_same_scene_and_pixels() {
             }
         };
         // Compared as scenes (f32 fields): JSON text of an f32 may parse back a unit in the
-        // last place of f64 away, which is the same f32.
-        let stored: Scene = serde_json::from_value(e["scene"].clone()).expect("a stored scene");
+        // last place of f64 away, which is the same f32. The stored scene is read as a scene
+        // file of its own version, as every record is: fields added by later formats take the
+        // values their version's table gives them.
+        let stored = Scene::from_json(&e["scene"].to_string())
+            .expect("a stored scene")
+            .into_scene();
         if *scene.scene() != stored {
             failures.push(format!(
                 "{name}: decodes to another scene:\n  {}\nnot\n  {}",
@@ -171,7 +209,7 @@ fn links_of_earlier_builds_with_the_old_panel_names_open() {
     // Everything else is the format-1 default scene.
     let mut expected = Scene {
         panel: PANEL,
-        ..Scene::default()
+        ..format_1_default()
     };
     expected.difference.pair = [ShadingMode::PerVertex, ShadingMode::Exact];
     assert_eq!(scene, expected);
@@ -196,9 +234,18 @@ fn scene_files_fill_missing_fields_from_their_versions_defaults() {
     let s = Scene::from_json(r#"{"version": 1, "model": "phong"}"#).expect("valid");
     let expected = Scene {
         model: twinshade::shading::ReflectionModel::Phong,
-        ..Scene::default()
+        ..format_1_default()
     };
     assert_eq!(s, expected);
+    // The same file as version 2 takes format 2's defaults.
+    let s2 = Scene::from_json(r#"{"version": 2, "model": "phong"}"#).expect("valid");
+    assert_eq!(
+        s2,
+        Scene {
+            model: twinshade::shading::ReflectionModel::Phong,
+            ..Scene::default()
+        }
+    );
     // Without a version a file is read as version 1, the first format.
     assert_eq!(
         Scene::from_json(r#"{"model": "phong"}"#).expect("valid"),

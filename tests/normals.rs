@@ -4,7 +4,7 @@
 use glam::Vec3;
 use twinshade::geometry::Mesh;
 use twinshade::geometry::Shape;
-use twinshade::geometry::{compute_normals, NormalWeighting};
+use twinshade::geometry::{compute_normals, Coincident, Corner, NormalWeighting, NO_NORMAL};
 
 /// A unit cube of 12 triangles: each face split along one diagonal. The +z face is split
 /// along the diagonal that misses corner (1, 1, 1), the +x and +y faces along diagonals
@@ -30,7 +30,7 @@ fn triangle_cube() -> Mesh {
 }
 
 fn corner_normals(m: &Mesh, w: NormalWeighting) -> Vec<(Vec3, Vec3)> {
-    let out = compute_normals(m, w, 180.0);
+    let out = compute_normals(m, w, 180.0, Coincident::Separate);
     out.corners
         .iter()
         .map(|c| {
@@ -101,7 +101,12 @@ fn icosphere_normals_deviate_from_radial_as_published() {
 #[test]
 fn crease_angle_splits_hard_edges() {
     // Common practice: a crease angle below 90 degrees keeps a cube's faces flat.
-    let m = compute_normals(&triangle_cube(), NormalWeighting::Angle, 30.0);
+    let m = compute_normals(
+        &triangle_cube(),
+        NormalWeighting::Angle,
+        30.0,
+        Coincident::Separate,
+    );
     for f in m.faces() {
         let n = m.normals[f[0].normal as usize];
         let axis = n.abs().max_element();
@@ -113,4 +118,84 @@ fn crease_angle_splits_hard_edges() {
     }
     // Three distinct normals per corner position, 24 in all.
     assert_eq!(m.normals.len(), 24);
+}
+
+/// `mesh` with every face given positions of its own: the same surface, split along every
+/// edge (as files split along UV or patch seams are), without normals.
+fn split_everywhere(mesh: &Mesh) -> Mesh {
+    let mut out = Mesh::new("split");
+    for f in 0..mesh.face_count() {
+        let corners: Vec<Corner> = mesh
+            .face(f)
+            .iter()
+            .map(|c| {
+                out.positions.push(mesh.positions[c.position as usize]);
+                Corner {
+                    position: out.positions.len() as u32 - 1,
+                    normal: NO_NORMAL,
+                }
+            })
+            .collect();
+        out.push_face(&corners);
+    }
+    out
+}
+
+#[test]
+fn a_mesh_split_along_seams_shades_like_the_same_mesh_welded() {
+    use twinshade::scene::{MeshSource, NormalSource, PanelSize};
+    use twinshade::{Framebuffer, Renderer, Scene, ShadingMode};
+    let mut welded = Shape::Torus {
+        rings: 16,
+        segments: 10,
+    }
+    .build();
+    welded.normals.clear();
+    for c in &mut welded.corners {
+        c.normal = NO_NORMAL;
+    }
+    let split = split_everywhere(&welded);
+    assert_eq!(split.positions.len(), welded.corners.len());
+    let render = |mesh: &Mesh, coincident: Coincident| {
+        let mut scene = Scene {
+            mesh: MeshSource::File {
+                name: "torus.obj".into(),
+            },
+            panel: PanelSize {
+                width: 160,
+                height: 120,
+            },
+            ..Scene::default()
+        };
+        scene.normals.source = NormalSource::Computed;
+        scene.normals.coincident = coincident;
+        scene.turn(30.0, 20.0);
+        let mut r = Renderer::new();
+        r.set_file_mesh(mesh.clone());
+        [ShadingMode::PerVertex, ShadingMode::PerPixel].map(|mode| {
+            let mut fb = Framebuffer::new(0, 0);
+            r.render(&scene.checked().expect("valid"), mode, &mut fb)
+                .expect("renders");
+            fb.bytes().to_vec()
+        })
+    };
+    let reference = render(&welded, Coincident::Separate);
+    // Joined: the split mesh renders exactly as the welded one, in both panels.
+    assert!(
+        render(&split, Coincident::Joined) == reference,
+        "split and joined differs from welded"
+    );
+    assert!(render(&welded, Coincident::Joined) == reference);
+    // Kept apart (scene format 1's rule), every face of the split mesh is its own vertex
+    // set: faceted, so the panels differ.
+    let apart = render(&split, Coincident::Separate);
+    let differing = apart[1]
+        .chunks_exact(4)
+        .zip(reference[1].chunks_exact(4))
+        .filter(|(a, b)| a != b)
+        .count();
+    assert!(
+        differing > 1000,
+        "only {differing} pixels differ when kept apart"
+    );
 }

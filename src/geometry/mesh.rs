@@ -57,6 +57,9 @@ pub struct Mesh {
     pub corners: Vec<Corner>,
     /// `corners[face_starts[f]..face_starts[f + 1]]` is face `f`; starts with 0.
     pub face_starts: Vec<u32>,
+    /// The file's format asks for flat normals where the file gives none (glTF 2.0: "when
+    /// normals are not specified, client implementations MUST calculate flat normals").
+    pub flat_if_no_normals: bool,
 }
 
 /// What is wrong with a mesh.

@@ -14,7 +14,7 @@
 //! whose normals are within the crease angle of its own face's normal. 180 degrees smooths
 //! everything.
 
-use crate::geometry::mesh::{polygon_area_vector, Corner, Mesh};
+use crate::geometry::mesh::{polygon_area_vector, Mesh};
 use glam::Vec3;
 use schemars::JsonSchema;
 use serde::{Deserialize, Serialize};
@@ -32,13 +32,47 @@ pub enum NormalWeighting {
     Max,
 }
 
+/// Whether corners at the same position but under different position indices (a mesh split
+/// along its UV or patch seams, say) are smoothed together when normals are computed.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Default, Serialize, Deserialize, JsonSchema)]
+#[serde(rename_all = "lowercase")]
+pub enum Coincident {
+    /// Each position index is its own vertex (the behaviour of scene format 1).
+    Separate,
+    /// Positions with the same coordinates are one vertex for smoothing; the corners keep
+    /// their own indices (so whatever else tells them apart stays split).
+    #[default]
+    Joined,
+}
+
 /// Returns a copy of `mesh` whose corners use normals computed from its faces.
 ///
 /// `crease_deg` is the largest angle, in degrees, between two face normals that are still
 /// smoothed together; 180 or more smooths every vertex.
-pub fn compute_normals(mesh: &Mesh, weighting: NormalWeighting, crease_deg: f32) -> Mesh {
+pub fn compute_normals(
+    mesh: &Mesh,
+    weighting: NormalWeighting,
+    crease_deg: f32,
+    coincident: Coincident,
+) -> Mesh {
     let nfaces = mesh.face_count();
     let npos = mesh.positions.len();
+    // The vertex each position smooths as: itself, or the first position with its coordinates.
+    let vertex_of: Vec<u32> = match coincident {
+        Coincident::Separate => (0..npos as u32).collect(),
+        Coincident::Joined => {
+            let mut first = std::collections::HashMap::with_capacity(npos);
+            mesh.positions
+                .iter()
+                .enumerate()
+                .map(|(i, p)| {
+                    // -0.0 and 0.0 are the same place.
+                    let key = (*p + Vec3::ZERO).to_array().map(f32::to_bits);
+                    *first.entry(key).or_insert(i as u32)
+                })
+                .collect()
+        }
+    };
     // Per face: unit normal. Per corner: weighted contribution (face normal times weight).
     let mut face_normal = Vec::with_capacity(nfaces);
     let mut contribution = vec![Vec3::ZERO; mesh.corners.len()];
@@ -71,10 +105,10 @@ pub fn compute_normals(mesh: &Mesh, weighting: NormalWeighting, crease_deg: f32)
             corner_face[start + i] = f as u32;
         }
     }
-    // Corners around each position (compressed rows).
+    // Corners around each vertex (compressed rows).
     let mut row = vec![0u32; npos + 1];
     for c in &mesh.corners {
-        row[c.position as usize + 1] += 1;
+        row[vertex_of[c.position as usize] as usize + 1] += 1;
     }
     for i in 0..npos {
         row[i + 1] += row[i];
@@ -82,7 +116,7 @@ pub fn compute_normals(mesh: &Mesh, weighting: NormalWeighting, crease_deg: f32)
     let mut fill = row.clone();
     let mut around = vec![0u32; mesh.corners.len()];
     for (ci, c) in mesh.corners.iter().enumerate() {
-        let slot = &mut fill[c.position as usize];
+        let slot = &mut fill[vertex_of[c.position as usize] as usize];
         around[*slot as usize] = ci as u32;
         *slot += 1;
     }
@@ -120,10 +154,7 @@ pub fn compute_normals(mesh: &Mesh, weighting: NormalWeighting, crease_deg: f32)
                     i
                 }
             };
-            out.corners[c as usize] = Corner {
-                position: v as u32,
-                normal: index,
-            };
+            out.corners[c as usize].normal = index;
         }
     }
     out

@@ -17,7 +17,7 @@
 
 use crate::geometry::camera::CameraFrame;
 use crate::geometry::mesh::Mesh;
-use crate::geometry::normals::compute_normals;
+use crate::geometry::normals::{compute_normals, Coincident};
 use crate::geometry::shapes::Shape;
 use crate::geometry::vertex_buffer::MAX_CORNERS;
 use crate::geometry::vertex_buffer::{PolygonMode, VertexBuffer};
@@ -31,7 +31,7 @@ use crate::pipeline::shaders::{Both, Constant, ExactSurface, PerPixel, VertexCol
 use crate::pipeline::surface::{surface_points, Probe, SurfacePoint};
 use crate::pipeline::vertex_stage::{project, StageKey, VertexStage};
 use crate::scene::definition::{Scene, ValidScene};
-use crate::scene::settings::{MeshSource, NormalSettings, NormalSource, ShadingMode};
+use crate::scene::settings::{GltfNormals, MeshSource, NormalSettings, NormalSource, ShadingMode};
 use crate::shading::color::SrgbEncoder;
 use crate::shading::lighting::Lighting;
 use glam::{Mat3, Quat, Vec3, Vec4};
@@ -139,10 +139,16 @@ impl Renderer {
                 None => return Err(PrepareError::MeshNotLoaded { name: name.clone() }),
             },
         };
-        let mesh = if scene.normals.source == NormalSource::Computed || !mesh.has_normals() {
-            compute_normals(&mesh, scene.normals.weighting, scene.normals.crease_deg)
-        } else {
+        let ns = &scene.normals;
+        let mesh = if ns.source == NormalSource::Computed {
+            compute_normals(&mesh, ns.weighting, ns.crease_deg, ns.coincident)
+        } else if mesh.has_normals() {
             mesh
+        } else if mesh.flat_if_no_normals && ns.gltf_without_normals == GltfNormals::Flat {
+            // One normal per face: a crease angle of 0 smooths only coplanar faces.
+            compute_normals(&mesh, ns.weighting, 0.0, Coincident::Separate)
+        } else {
+            compute_normals(&mesh, ns.weighting, ns.crease_deg, ns.coincident)
         };
         let sub = scene.subdivision;
         let mesh = if sub.levels > 0 {

@@ -345,6 +345,8 @@ impl Scene {
             1.0,
             2048.0,
         )?;
+        in_range(("roughness", "material.roughness"), m.roughness, 0.0, 1.0)?;
+        in_range(("metallic", "material.metallic"), m.metallic, 0.0, 1.0)?;
         in_range(
             ("emissive strength", "material.emissive_strength"),
             m.emissive_strength,

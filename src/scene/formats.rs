@@ -13,7 +13,7 @@
 use serde_json::Value;
 
 /// The format this build writes: the scene JSON `version` and the link prefix.
-pub const FORMAT: u32 = 1;
+pub const FORMAT: u32 = 2;
 
 /// The revision of the pixels this build draws. It is raised with every deliberate change that
 /// alters pixels (the golden images re-blessed in the same change); scenes, links, sheets and
@@ -33,7 +33,7 @@ pub fn revision_notice(made: u32, current: u32) -> Option<String> {
     })
 }
 
-/// Format 1 (every build up to and including this one): the scene JSON of the defaults. The
+/// Format 1 (builds up to the metallic-roughness model): the scene JSON of the defaults. The
 /// shading modes were once called `gouraud` and `phong`; both spellings are read. Records of
 /// format 1 made before scenes recorded their renderer revision were all made under
 /// revision 1, which the table fills in.
@@ -122,14 +122,126 @@ const FORMAT_1: &str = r##"{
     }
 }"##;
 
+/// Fields that format 1 did not have, with the values that reproduce what format-1 builds
+/// did: normals computed with each position index its own vertex, glTF files without normals
+/// smoothed, and a metallic-roughness material that only the (then absent) model reads.
+const FORMAT_1_LATER_FIELDS: &str = r##"{
+    "normals": {
+        "coincident": "separate",
+        "gltf_without_normals": "smooth"
+    },
+    "material": {
+        "roughness": 0.5,
+        "metallic": 0.0
+    }
+}"##;
+
+/// Format 2: the glTF metallic-roughness model (material `roughness`, `metallic`; model
+/// `metallic_roughness`); computed normals join corners at the same position; glTF files
+/// without normals are shaded flat, as the glTF specification requires. Every format-1
+/// default is unchanged.
+const FORMAT_2: &str = r##"{
+    "version": 2,
+    "mesh": {
+        "shape": {
+            "kind": "icosphere",
+            "level": 2
+        }
+    },
+    "normals": {
+        "source": "authored",
+        "weighting": "angle",
+        "crease_deg": 180.0,
+        "coincident": "joined",
+        "gltf_without_normals": "flat"
+    },
+    "polygons": "as_authored",
+    "subdivision": {
+        "method": "midpoint",
+        "levels": 0
+    },
+    "camera": {
+        "projection": "perspective",
+        "fov_y_deg": 45.0,
+        "ortho_height": 2.4,
+        "yaw_deg": 0.0,
+        "pitch_deg": 0.0,
+        "distance": 3.0,
+        "roll_deg": 0.0,
+        "near": 0.1,
+        "far": 100.0
+    },
+    "rotation": [
+        0.0,
+        0.0,
+        0.0,
+        1.0
+    ],
+    "lights": [
+        {
+            "kind": "directional",
+            "azimuth_deg": 35.0,
+            "elevation_deg": 30.0,
+            "distance": 2.5,
+            "color": "#fff4e0",
+            "intensity": 1.0,
+            "falloff": 0.1
+        },
+        {
+            "kind": "point",
+            "azimuth_deg": -70.0,
+            "elevation_deg": -10.0,
+            "distance": 3.0,
+            "color": "#9fc3ff",
+            "intensity": 0.5,
+            "falloff": 0.05
+        }
+    ],
+    "ambient_light": "#ffffff",
+    "material": {
+        "base_color": "#2f8f83",
+        "ambient": 0.08,
+        "diffuse": 0.9,
+        "specular": 0.6,
+        "shininess": 80.0,
+        "emissive": "#000000",
+        "emissive_strength": 0.0,
+        "finish": "dielectric",
+        "roughness": 0.5,
+        "metallic": 0.0
+    },
+    "model": "blinn_phong",
+    "cull_back_faces": true,
+    "perspective_correct": true,
+    "panel": {
+        "width": 480,
+        "height": 360
+    },
+    "background": "#1b1d22",
+    "renderer": 1,
+    "difference": {
+        "pair": [
+            "per_vertex",
+            "per_pixel"
+        ],
+        "threshold": 1.0,
+        "scale_max": 5.0
+    }
+}"##;
+
 /// The defaults of format `n` as JSON, or `None` for a format this build does not know.
 pub fn defaults(n: u32) -> Option<Value> {
-    let text = match n {
-        1 => FORMAT_1,
-        _ => return None,
-    };
     // The tables are constants checked by the tests: they always parse.
-    serde_json::from_str(text).ok()
+    let parse = |text: &str| serde_json::from_str::<Value>(text).ok();
+    match n {
+        1 => {
+            let mut table = parse(FORMAT_1)?;
+            merge(&mut table, parse(FORMAT_1_LATER_FIELDS)?);
+            Some(table)
+        }
+        2 => parse(FORMAT_2),
+        _ => None,
+    }
 }
 
 /// Writes `patch` over `base` (objects merged field by field, anything else replaced).

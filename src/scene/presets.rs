@@ -104,6 +104,18 @@ pub fn presets() -> Vec<Preset> {
     affine.lights = vec![light(LightKind::Point, 0.0, 60.0, 1.0)];
     affine.lights[0].falloff = 1.5;
 
+    let mut glossy = base.clone();
+    glossy.mesh = MeshSource::Shape(Shape::Icosphere { level: 3 });
+    glossy.model = ReflectionModel::MetallicRoughness;
+    glossy.material = Material {
+        base_color: Rgb::hex("#d8a657"),
+        metallic: 1.0,
+        roughness: 0.2,
+        ..Material::default()
+    };
+    let mut rough = glossy.clone();
+    rough.material.roughness = 0.8;
+
     vec![
         Preset {
             id: "lost-highlight",
@@ -146,6 +158,18 @@ pub fn presets() -> Vec<Preset> {
             title: "Affine versus perspective-correct",
             caption: "Interpolating in screen space instead of perspective-correctly bends shading across faces seen at a grazing angle; tick the box to compare.",
             scene: affine,
+        },
+        Preset {
+            id: "glossy-metal",
+            title: "Glossy metal needs per-pixel light",
+            caption: "A polished brass sphere of 642 vertices (glTF metallic-roughness, roughness 0.2): its narrow highlight falls between vertices, so per-vertex lighting breaks it into facets.",
+            scene: glossy,
+        },
+        Preset {
+            id: "rough-metal",
+            title: "Rough metal survives per-vertex light",
+            caption: "The same sphere and brass at roughness 0.8: the broad highlight spans many vertices, and per-vertex lighting stays within a just-noticeable difference almost everywhere.",
+            scene: rough,
         },
     ]
 }

@@ -2,7 +2,7 @@
 //! the shading modes and what the difference view compares. Plain data with serde names;
 //! ranges are checked by [`crate::scene::definition::Scene::validate`].
 
-use crate::geometry::normals::NormalWeighting;
+use crate::geometry::normals::{Coincident, NormalWeighting};
 use crate::geometry::shapes::Shape;
 use schemars::JsonSchema;
 use serde::{Deserialize, Serialize};
@@ -47,6 +47,23 @@ pub struct NormalSettings {
     /// Crease angle in degrees when computing (180 = smooth everything).
     #[schemars(range(min = 0.0, max = 180.0))]
     pub crease_deg: f32,
+    /// When computing: corners at the same position under different indices (a mesh split
+    /// along seams) are smoothed together (`joined`) or apart (`separate`).
+    pub coincident: Coincident,
+    /// A glTF file without normals: `flat`, as the glTF 2.0 specification requires of
+    /// clients, or `smooth` (computed with the settings above).
+    pub gltf_without_normals: GltfNormals,
+}
+
+/// What a glTF file without normals is shaded with.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default, JsonSchema)]
+#[serde(rename_all = "lowercase")]
+pub enum GltfNormals {
+    /// Flat: one normal per face (glTF 2.0, "Meshes": clients MUST calculate flat normals).
+    #[default]
+    Flat,
+    /// Smooth: computed with the crease angle and weighting (the user's choice).
+    Smooth,
 }
 
 impl Default for NormalSettings {
@@ -55,6 +72,8 @@ impl Default for NormalSettings {
             source: NormalSource::Authored,
             weighting: NormalWeighting::Angle,
             crease_deg: 180.0,
+            coincident: Coincident::Joined,
+            gltf_without_normals: GltfNormals::Flat,
         }
     }
 }

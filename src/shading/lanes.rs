@@ -80,6 +80,12 @@ impl F4 {
         F4(self.0.sqrt())
     }
 
+    /// Lane-wise absolute value (exact: the sign bit cleared).
+    #[inline(always)]
+    pub fn abs(self) -> F4 {
+        F4(self.0.abs())
+    }
+
     /// Lane-wise `if mask { a } else { b }`.
     #[inline(always)]
     pub fn select(mask: M4, a: F4, b: F4) -> F4 {

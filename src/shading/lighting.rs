@@ -7,8 +7,20 @@
 //! - Blinn-Phong (J. F. Blinn, "Models of Light Reflection for Computer Synthesized Pictures",
 //!   SIGGRAPH 1977): specular = max(N . H, 0)^n with H = normalize(L + V).
 //!
-//! Specular is added only where N . L > 0. Dielectric highlights take the light's colour,
-//! metallic highlights are tinted by the base colour. Point lights fall off as 1 / (1 + k d^2).
+//! - The glTF 2.0 metallic-roughness BRDF (glTF 2.0 specification, Appendix B, "Sample
+//!   Implementation"): Trowbridge-Reitz/GGX distribution, the height-correlated Smith
+//!   visibility term, Schlick's Fresnel with f0 = mix(0.04, base, metallic), the dielectric's
+//!   Lambertian diffuse weighted by 1 - F, alpha = roughness^2.
+//!
+//! Light is added only where N . L > 0. In the Phong models dielectric highlights take the
+//! light's colour and metallic ones are tinted by the base colour. Point lights fall off as
+//! 1 / (1 + k d^2).
+//!
+//! Light units, one convention for every model (common practice in real-time engines): a
+//! light of colour c and intensity k delivers c k at normal incidence, and a BRDF f reflects
+//! pi f c k (N . L), so a white Lambertian surface (f = 1/pi) facing a unit light renders at
+//! 1.0 before sRGB encoding. The Phong models' diffuse term is kd base (N . L) in the same
+//! units.
 
 use crate::geometry::camera::CameraFrame;
 use crate::shading::color::Rgb;
@@ -20,15 +32,68 @@ use serde::{Deserialize, Serialize};
 /// At most this many lights are used.
 pub const MAX_LIGHTS: usize = 4;
 
-/// The reflection model of the specular term.
+/// The reflection model.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default, JsonSchema)]
 #[serde(rename_all = "snake_case")]
 pub enum ReflectionModel {
-    /// Phong 1975: reflection vector.
+    /// Phong 1975: reflection vector, exponent `shininess`.
     Phong,
-    /// Blinn 1977: half vector.
+    /// Blinn 1977: half vector, exponent `shininess`.
     #[default]
     BlinnPhong,
+    /// The glTF 2.0 metallic-roughness BRDF: `base_color`, `metallic`, `roughness`.
+    MetallicRoughness,
+}
+
+impl ReflectionModel {
+    /// Every model, in the order above.
+    pub const ALL: [ReflectionModel; 3] = [
+        ReflectionModel::Phong,
+        ReflectionModel::BlinnPhong,
+        ReflectionModel::MetallicRoughness,
+    ];
+
+    /// The name in JSON and on the command line.
+    pub fn id(self) -> &'static str {
+        match self {
+            ReflectionModel::Phong => "phong",
+            ReflectionModel::BlinnPhong => "blinn_phong",
+            ReflectionModel::MetallicRoughness => "metallic_roughness",
+        }
+    }
+
+    /// A label for menus and sheets.
+    pub fn label(self) -> &'static str {
+        match self {
+            ReflectionModel::Phong => "Phong (1975)",
+            ReflectionModel::BlinnPhong => "Blinn-Phong (1977)",
+            ReflectionModel::MetallicRoughness => "Metallic-roughness (glTF)",
+        }
+    }
+}
+
+/// The least roughness shaded: below it a surface is shaded at this roughness. At 0.05,
+/// alpha^2 = 6.25e-6 and the distribution's peak 1 / (pi alpha^2) is 5.1e4; the term
+/// (N . H)^2 (alpha^2 - 1) + 1 that decides the lobe still resolves alpha^2 with about 100
+/// f32 steps to spare, and the lobe is already narrower than a pixel of any panel, so lower
+/// values would only add noise.
+pub const MIN_ROUGHNESS: f32 = 0.05;
+
+/// The Blinn-Phong exponent whose lobe matches a GGX roughness near its peak,
+/// n = 2 / alpha^2 - 2 with alpha = roughness^2 (the Phong-Beckmann relation of Walter,
+/// Marschner, Li and Torrance 2007, which GGX follows near the peak); clamped to the scene's
+/// shininess range 1..=2048.
+pub fn blinn_exponent_for_roughness(roughness: f32) -> f32 {
+    let r = roughness.clamp(MIN_ROUGHNESS, 1.0);
+    let alpha = r * r;
+    (2.0 / (alpha * alpha) - 2.0).clamp(1.0, 2048.0)
+}
+
+/// The roughness whose GGX lobe matches Blinn-Phong exponent `n` (the inverse of
+/// [`blinn_exponent_for_roughness`]), clamped to [`MIN_ROUGHNESS`]..=1.
+pub fn roughness_for_blinn_exponent(n: f32) -> f32 {
+    let alpha = (2.0 / (n.max(0.0) + 2.0)).sqrt();
+    alpha.sqrt().clamp(MIN_ROUGHNESS, 1.0)
 }
 
 /// Directional or point light.
@@ -129,8 +194,15 @@ pub struct Material {
     /// Multiplier of the emitted colour (linear).
     #[schemars(range(min = 0.0, max = 100.0))]
     pub emissive_strength: f32,
-    /// Dielectric or metal highlights.
+    /// Dielectric or metal highlights (Phong models).
     pub finish: Finish,
+    /// Perceptual roughness, 0..=1 (metallic-roughness model; shaded at no less than
+    /// [`MIN_ROUGHNESS`]).
+    #[schemars(range(min = 0.0, max = 1.0))]
+    pub roughness: f32,
+    /// Metalness, 0..=1 (metallic-roughness model).
+    #[schemars(range(min = 0.0, max = 1.0))]
+    pub metallic: f32,
 }
 
 impl Default for Material {
@@ -144,8 +216,89 @@ impl Default for Material {
             emissive: Rgb::hex("#000000"),
             emissive_strength: 0.0,
             finish: Finish::Dielectric,
+            roughness: 0.5,
+            metallic: 0.0,
         }
     }
+}
+
+/// The glTF metallic-roughness material, prepared: Schlick's f0 and 1 - f0, the diffuse
+/// colour base (1 - metallic) (1 - 0.04), and alpha^2.
+#[derive(Clone, Copy, Debug)]
+struct Microfacet {
+    f0: Vec3,
+    one_minus_f0: Vec3,
+    diffuse: Vec3,
+    alpha2: f32,
+}
+
+impl Microfacet {
+    fn new(base: Vec3, material: &Material) -> Microfacet {
+        let m = material.metallic;
+        let r = material.roughness.max(MIN_ROUGHNESS);
+        let alpha = r * r;
+        let f0 = Vec3::splat(DIELECTRIC_F0 * (1.0 - m)) + base * m;
+        Microfacet {
+            f0,
+            one_minus_f0: Vec3::ONE - f0,
+            diffuse: base * ((1.0 - m) * (1.0 - DIELECTRIC_F0)),
+            alpha2: alpha * alpha,
+        }
+    }
+}
+
+/// Schlick's f0 of dielectrics in the glTF model (an index of refraction of 1.5).
+pub const DIELECTRIC_F0: f32 = 0.04;
+
+/// (1 - x)^5, x clamped to [0, 1]: Schlick's Fresnel weight.
+#[inline(always)]
+pub fn schlick_weight(x: f32) -> f32 {
+    let t = 1.0 - x;
+    let t = if t > 0.0 { t } else { 0.0 };
+    let t2 = t * t;
+    t2 * t2 * t
+}
+
+/// [`schlick_weight`] in four lanes, bit-identical lane by lane.
+#[inline(always)]
+fn schlick_weight4(x: F4) -> F4 {
+    let t = F4::splat(1.0) - x;
+    let t = F4::select(t.gt(0.0), t, F4::splat(0.0));
+    let t2 = t * t;
+    t2 * t2 * t
+}
+
+/// [`ggx_lobe`] in four lanes, bit-identical lane by lane.
+#[inline(always)]
+fn ggx_lobe4(alpha2: f32, ndh: F4, ndl: F4, ndv: F4) -> F4 {
+    let t = ndh * ndh * (alpha2 - 1.0) + 1.0;
+    let k = 1.0 - alpha2;
+    let a = F4::splat(alpha2);
+    let vis =
+        F4::splat(0.5) / (ndv * (a + ndl * ndl * k).sqrt() + ndl * (a + ndv * ndv * k).sqrt());
+    F4::select(ndh.gt(0.0), a / (t * t) * vis, F4::splat(0.0))
+}
+
+/// pi times the glTF specular BRDF without Fresnel, pi D V: the GGX distribution
+/// D = alpha^2 / (pi ((N.H)^2 (alpha^2 - 1) + 1)^2) (zero where N.H <= 0) times the
+/// height-correlated visibility V = 0.5 / (|N.V| sqrt(alpha^2 + (1 - alpha^2)(N.L)^2) +
+/// |N.L| sqrt(alpha^2 + (1 - alpha^2)(N.V)^2)). The pi of the light units cancels D's.
+#[inline(always)]
+pub fn ggx_lobe(alpha2: f32, ndh: f32, ndl: f32, ndv: f32) -> f32 {
+    if ndh <= 0.0 {
+        return 0.0;
+    }
+    let t = ndh * ndh * (alpha2 - 1.0) + 1.0;
+    alpha2 / (t * t) * smith_visibility(alpha2, ndl, ndv)
+}
+
+/// The glTF specification's visibility term, the height-correlated Smith masking-shadowing
+/// function over 4 |N.L| |N.V|: 0.5 / (|N.V| sqrt(alpha^2 + (1 - alpha^2)(N.L)^2) +
+/// |N.L| sqrt(alpha^2 + (1 - alpha^2)(N.V)^2)).
+#[inline(always)]
+pub fn smith_visibility(alpha2: f32, ndl: f32, ndv: f32) -> f32 {
+    let k = 1.0 - alpha2;
+    0.5 / (ndv * (alpha2 + k * (ndl * ndl)).sqrt() + ndl * (alpha2 + k * (ndv * ndv)).sqrt())
 }
 
 #[derive(Clone, Copy, Debug, Default)]
@@ -168,6 +321,8 @@ pub struct Lighting {
     specular: Vec3,
     shininess: f32,
     blinn: bool,
+    /// The metallic-roughness model, when it is the scene's.
+    gltf: Option<Microfacet>,
     eye: Vec3,
     toward_eye: Vec3,
     orthographic: bool,
@@ -214,6 +369,8 @@ impl Lighting {
             specular: spec_tint * material.specular,
             shininess: material.shininess,
             blinn: model == ReflectionModel::BlinnPhong,
+            gltf: (model == ReflectionModel::MetallicRoughness)
+                .then(|| Microfacet::new(base, material)),
             eye: camera.eye,
             toward_eye: camera.toward_eye,
             orthographic: camera.orthographic,
@@ -239,6 +396,18 @@ impl Lighting {
                 (light.vector, light.color)
             };
             let ndl = n.dot(l);
+            if let Some(g) = &self.gltf {
+                if ndl > 0.0 {
+                    let h = (l + v).normalize_or_zero();
+                    let ndv = n.dot(v).abs();
+                    let fw = schlick_weight(v.dot(h).abs());
+                    let lobe = ggx_lobe(g.alpha2, n.dot(h), ndl, ndv);
+                    let diffuse = g.diffuse * (1.0 - fw);
+                    let specular = (g.f0 + g.one_minus_f0 * fw) * lobe;
+                    col += (diffuse + specular) * (c * ndl);
+                }
+                continue;
+            }
             if ndl > 0.0 {
                 let s = if self.blinn {
                     n.dot((l + v).normalize_or_zero())
@@ -283,6 +452,35 @@ impl Lighting {
                 (V4::splat(light.vector), V4::splat(light.color))
             };
             let ndl = n.dot(l);
+            let lit = ndl.gt(0.0);
+            if let Some(g) = &self.gltf {
+                let h = (l + v).normalize_or_zero();
+                let ndv = n.dot(v).abs();
+                let fw = schlick_weight4(v.dot(h).abs());
+                let lobe = ggx_lobe4(g.alpha2, n.dot(h), ndl, ndv);
+                let one_minus_fw = F4::splat(1.0) - fw;
+                let term = |d: f32, f0: f32, omf0: f32, c: F4| {
+                    (one_minus_fw * d + (fw * omf0 + f0) * lobe) * (c * ndl)
+                };
+                col = V4 {
+                    x: F4::select(
+                        lit,
+                        col.x + term(g.diffuse.x, g.f0.x, g.one_minus_f0.x, c.x),
+                        col.x,
+                    ),
+                    y: F4::select(
+                        lit,
+                        col.y + term(g.diffuse.y, g.f0.y, g.one_minus_f0.y, c.y),
+                        col.y,
+                    ),
+                    z: F4::select(
+                        lit,
+                        col.z + term(g.diffuse.z, g.f0.z, g.one_minus_f0.z, c.z),
+                        col.z,
+                    ),
+                };
+                continue;
+            }
             let s = if self.blinn {
                 n.dot((l + v).normalize_or_zero())
             } else {
@@ -293,7 +491,6 @@ impl Lighting {
                 specular_power4(s, self.shininess),
                 F4::splat(0.0),
             );
-            let lit = ndl.gt(0.0);
             let term = |d: f32, sp: f32, c: F4| (ndl * d + spec * sp) * c;
             col = V4 {
                 x: F4::select(

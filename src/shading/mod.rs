@@ -13,6 +13,7 @@ pub use color::{
 };
 pub use lanes::{F4, M4, V4};
 pub use lighting::{
-    specular_power, specular_power4, Finish, Light, LightKind, Lighting, Material, ReflectionModel,
-    MAX_LIGHTS,
+    blinn_exponent_for_roughness, ggx_lobe, roughness_for_blinn_exponent, schlick_weight,
+    smith_visibility, specular_power, specular_power4, Finish, Light, LightKind, Lighting,
+    Material, ReflectionModel, DIELECTRIC_F0, MAX_LIGHTS, MIN_ROUGHNESS,
 };

@@ -23,6 +23,9 @@ export function buildControls() {
     (p) => { const [a, b] = p.split(",").map(modeName); return `${cap(a)} vs ${b === "exact" ? "exact surface" : b}`; });
   const methods = { midpoint: "Midpoint (same flat faces)", pn_triangles: "PN triangles (smoother surface)" };
   fillSelect($("subdiv-method"), v.subdivision_methods, (m) => methods[m] || m);
+  const models = new Map(v.models.map((m) => [m.id, m.label]));
+  fillSelect($("model"), v.models.map((m) => m.id), (id) => models.get(id));
+  $("roughness").min = String(v.min_roughness);
   $("subdiv-levels").max = String(v.subdivision_max_levels);
   $("sweep-steps").max = String(Math.min(720, v.max_sweep_steps));
 }
@@ -68,6 +71,8 @@ export function syncControls() {
   }
   $("normal-source").value = s.normals.source;
   $("normal-weighting").value = s.normals.weighting;
+  $("coincident").value = s.normals.coincident;
+  $("gltf-normals").value = s.normals.gltf_without_normals;
   $("crease").value = s.normals.crease_deg;
   $("crease-out").textContent = s.normals.crease_deg >= 180 ? "smooth" : `${Math.round(s.normals.crease_deg)}°`;
   $("polygons").value = s.polygons;
@@ -78,6 +83,17 @@ export function syncControls() {
   $("base").value = m.base_color;
   $("finish").value = m.finish;
   $("model").value = s.model;
+  for (const group of document.querySelectorAll(".model-controls")) {
+    group.hidden = !group.dataset.models.split(" ").includes(s.model);
+  }
+  $("roughness").value = m.roughness;
+  $("roughness-out").textContent = m.roughness.toFixed(2);
+  $("metallic").value = m.metallic;
+  $("metallic-out").textContent = m.metallic.toFixed(2);
+  const V = app.Viewer;
+  $("model-note").textContent = s.model === "metallic_roughness"
+    ? `Highlight comparable to Blinn-Phong shininess ${Math.round(V.blinnExponentForRoughness(m.roughness))} (n = 2/α² − 2, α = roughness², Walter et al. 2007).`
+    : `Highlight comparable to glTF roughness ${V.roughnessForBlinnExponent(m.shininess).toFixed(2)} (Walter et al. 2007); switching models keeps it.`;
   $("shininess").value = shininessToSlider(m.shininess);
   $("shininess-out").textContent = String(m.shininess);
   $("specular").value = m.specular;
@@ -118,7 +134,21 @@ export function bindControls() {
   on("subdiv-levels", "change", (s) => { s.subdivision.levels = +$("subdiv-levels").value; });
   on("base", "input", (s) => { s.material.base_color = $("base").value; });
   on("finish", "change", (s) => { s.material.finish = $("finish").value; });
-  on("model", "change", (s) => { s.model = $("model").value; });
+  on("model", "change", (s) => {
+    // Moving between the Phong models and metallic-roughness keeps a comparable highlight.
+    const next = $("model").value;
+    const V = app.Viewer;
+    if (next === "metallic_roughness" && s.model !== next) {
+      s.material.roughness = +V.roughnessForBlinnExponent(s.material.shininess).toFixed(2);
+    } else if (next !== "metallic_roughness" && s.model === "metallic_roughness") {
+      s.material.shininess = Math.round(V.blinnExponentForRoughness(s.material.roughness));
+    }
+    s.model = next;
+  });
+  on("roughness", "input", (s) => { s.material.roughness = +$("roughness").value; });
+  on("metallic", "input", (s) => { s.material.metallic = +$("metallic").value; });
+  on("coincident", "change", (s) => { s.normals.coincident = $("coincident").value; });
+  on("gltf-normals", "change", (s) => { s.normals.gltf_without_normals = $("gltf-normals").value; });
   on("shininess", "input", (s) => { s.material.shininess = sliderToShininess(+$("shininess").value); });
   on("specular", "input", (s) => { s.material.specular = +$("specular").value; });
   on("light-kind", "change", (s) => { s.lights[0].kind = $("light-kind").value; });

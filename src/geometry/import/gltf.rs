@@ -79,6 +79,7 @@ pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
     }
 
     let mut mesh = Mesh::new("");
+    mesh.flat_if_no_normals = true;
     let mut triangles = 0usize;
     let mut add = |node: &gltf::Node, world: Mat4| -> Result<(), ParseError> {
         let Some(m) = node.mesh() else {
