@@ -137,5 +137,38 @@ fn sweep_cost(c: &mut Criterion) {
     group.finish();
 }
 
-criterion_group!(benches, frames, page_frames, sweep_cost);
+/// The per-pixel panel alone under each reflection model (issue goal: the glTF
+/// metallic-roughness BRDF costs at most 1.5 times Blinn-Phong), bench scene L5 800x600.
+fn per_pixel_models(c: &mut Criterion) {
+    use twinshade::shading::ReflectionModel;
+    use twinshade::{Framebuffer, Renderer, ShadingMode};
+    let mut group = c.benchmark_group("per_pixel_model_L5_800x600");
+    group.sample_size(30);
+    for model in ReflectionModel::ALL {
+        let scenes: Vec<ValidScene> = (0..360)
+            .map(|f| {
+                let mut s = Scene::benchmark(5, 800, 600, f);
+                s.model = model;
+                // Roughness with the Blinn-Phong 64 lobe's width (n = 2 / alpha^2 - 2).
+                s.material.roughness = twinshade::shading::roughness_for_blinn_exponent(64.0);
+                s.checked().expect("valid scene")
+            })
+            .collect();
+        let mut r = Renderer::new();
+        let mut fb = Framebuffer::new(0, 0);
+        r.render(&scenes[0], ShadingMode::PerPixel, &mut fb)
+            .expect("renders");
+        let mut frame = 0usize;
+        group.bench_function(BenchmarkId::from_parameter(model.id()), |b| {
+            b.iter(|| {
+                frame = (frame + 1) % 360;
+                r.render(&scenes[frame], ShadingMode::PerPixel, &mut fb)
+                    .expect("frame renders")
+            })
+        });
+    }
+    group.finish();
+}
+
+criterion_group!(benches, frames, page_frames, sweep_cost, per_pixel_models);
 criterion_main!(benches);

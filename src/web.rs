@@ -262,7 +262,8 @@ impl Viewer {
     }
 
     /// Imports a mesh file (OBJ, STL, PLY, glTF or GLB) from its bytes and shows it. Returns its counts
-    /// `{name, format, vertices, faces, triangles, dropped_faces, authored_normals}`. On any
+    /// `{name, format, vertices, faces, triangles, dropped_faces, authored_normals,
+    /// vertex_colors}`. On any
     /// problem a JavaScript `Error` names the file, the place and the problem, and the
     /// previous scene stays.
     #[wasm_bindgen(js_name = loadMesh)]

@@ -364,3 +364,66 @@ fn rasterizer_survives_arbitrary_geometry() {
     eprintln!("arbitrary geometry: {renders} renders, no panic");
     assert!(renders > 800, "most random scenes render: {renders}");
 }
+
+#[test]
+fn vertex_colours_are_read_and_tint_both_panels() {
+    // A white square of two triangles, red on the left corners and blue on the right, as PLY
+    // (uchar colours) and as OBJ (`v x y z r g b`).
+    let ply = "ply\nformat ascii 1.0\nelement vertex 4\nproperty float x\nproperty float y\n\
+               property float z\nproperty uchar red\nproperty uchar green\nproperty uchar blue\n\
+               element face 2\nproperty list uchar int vertex_indices\nend_header\n\
+               -1 -1 0 255 0 0\n1 -1 0 0 0 255\n1 1 0 0 0 255\n-1 1 0 255 0 0\n\
+               3 0 1 2\n3 0 2 3\n";
+    let obj = "v -1 -1 0 1 0 0\nv 1 -1 0 0 0 1\nv 1 1 0 0 0 1\nv -1 1 0 1 0 0\nf 1 2 3\nf 1 3 4\n";
+    for (name, bytes) in [("square.ply", ply), ("square.obj", obj)] {
+        let m = import(name, bytes.as_bytes()).expect("imports");
+        assert!(m.info().vertex_colors, "{name}");
+        assert_eq!(m.mesh.colors.len(), 4, "{name}");
+        assert_eq!(m.mesh.colors[0], Vec3::new(1.0, 0.0, 0.0), "{name}");
+        assert_eq!(m.mesh.colors[1], Vec3::new(0.0, 0.0, 1.0), "{name}");
+        let mut scene = Scene {
+            mesh: MeshSource::File { name: name.into() },
+            panel: PanelSize {
+                width: 100,
+                height: 100,
+            },
+            ..Scene::default()
+        };
+        scene.material.base_color = twinshade::shading::Rgb::WHITE;
+        // No light-coloured highlight, so the colours are the tints alone.
+        scene.material.specular = 0.0;
+        scene.camera.projection = twinshade::geometry::Projection::Orthographic;
+        scene.cull_back_faces = false;
+        let render = |scene: &Scene| {
+            let mut r = Renderer::new();
+            r.set_file_mesh(m.mesh.clone());
+            [ShadingMode::PerVertex, ShadingMode::PerPixel].map(|mode| {
+                let mut fb = Framebuffer::new(0, 0);
+                r.render(&scene.checked().expect("valid"), mode, &mut fb)
+                    .expect("renders");
+                fb.bytes().to_vec()
+            })
+        };
+        let px = |img: &[u8], x: usize, y: usize| {
+            let i = (y * 100 + x) * 4;
+            [img[i], img[i + 1], img[i + 2]]
+        };
+        for img in render(&scene) {
+            let (left, right) = (px(&img, 25, 50), px(&img, 74, 50));
+            assert!(
+                left[0] > 2 * left[2].max(8),
+                "{name}: left is red: {left:?}"
+            );
+            assert!(
+                right[2] > 2 * right[0].max(8),
+                "{name}: right is blue: {right:?}"
+            );
+        }
+        // Turned off, the square is the base colour (white light on white: grey, not red).
+        scene.vertex_colors = false;
+        for img in render(&scene) {
+            let left = px(&img, 25, 50);
+            assert!(left[0].abs_diff(left[2]) < 40, "{name}: untinted {left:?}");
+        }
+    }
+}

@@ -98,3 +98,72 @@ fn four_lane_lighting_is_bit_identical_to_scalar() {
         }
     }
 }
+
+#[test]
+fn tinted_lighting_four_lanes_are_bit_identical_and_a_white_tint_changes_nothing() {
+    use glam::Vec3;
+    use twinshade::shading::{Finish, Lighting, ReflectionModel};
+    use twinshade::shading::{F4, V4};
+    use twinshade::Scene;
+    let mut state = 0x2545_f491_4f6c_dd1du64;
+    let mut next = || {
+        state ^= state << 13;
+        state ^= state >> 7;
+        state ^= state << 17;
+        (state >> 40) as f32 / (1u64 << 24) as f32 * 2.0 - 1.0
+    };
+    for (model, finish, metallic) in [
+        (ReflectionModel::BlinnPhong, Finish::Dielectric, 0.0),
+        (ReflectionModel::Phong, Finish::Metal, 0.0),
+        (ReflectionModel::MetallicRoughness, Finish::Dielectric, 0.0),
+        (ReflectionModel::MetallicRoughness, Finish::Dielectric, 0.7),
+    ] {
+        let mut scene = Scene {
+            model,
+            ..Scene::default()
+        };
+        scene.material.finish = finish;
+        scene.material.metallic = metallic;
+        scene.material.emissive_strength = 0.3;
+        scene.material.emissive = twinshade::shading::Rgb::hex("#203040");
+        let frame = scene.camera.frame(4.0 / 3.0);
+        let l = Lighting::new(
+            &scene.lights,
+            scene.ambient_light,
+            &scene.material,
+            model,
+            &frame,
+        );
+        for _ in 0..20_000 {
+            let n: [Vec3; 4] =
+                [0; 4].map(|_| Vec3::new(next(), next(), next()).normalize_or_zero());
+            let p: [Vec3; 4] = [0; 4].map(|_| Vec3::new(next(), next(), next()));
+            let t: [Vec3; 4] = [0; 4].map(|_| Vec3::new(next(), next(), next()).abs());
+            let lanes = |v: &[Vec3; 4]| V4 {
+                x: F4::new(v.map(|v| v.x)),
+                y: F4::new(v.map(|v| v.y)),
+                z: F4::new(v.map(|v| v.z)),
+            };
+            let got = l.shade4_tinted(lanes(&n), lanes(&p), lanes(&t));
+            for k in 0..4 {
+                let want = l.shade_tinted(n[k], p[k], t[k]);
+                let lane = [got.x, got.y, got.z].map(|c| c.to_array()[k]);
+                assert_eq!(
+                    lane.map(f32::to_bits),
+                    want.to_array().map(f32::to_bits),
+                    "{model:?}: n {} p {} tint {}",
+                    n[k],
+                    p[k],
+                    t[k]
+                );
+                // A white tint is the untinted shading, up to the order of the sums.
+                let white = l.shade_tinted(n[k], p[k], Vec3::ONE);
+                let plain = l.shade(n[k], p[k]);
+                assert!(
+                    (white - plain).abs().max_element() <= 1e-5 * plain.max_element().max(1.0),
+                    "{model:?}: white tint {white} vs {plain}"
+                );
+            }
+        }
+    }
+}

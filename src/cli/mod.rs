@@ -633,13 +633,18 @@ fn load_mesh(path: &Path) -> Result<twinshade::geometry::Imported, String> {
     let imported = twinshade::geometry::import(&name, &bytes).map_err(|e| e.to_string())?;
     let info = imported.info();
     eprintln!(
-        "twinshade: {}: {} vertices, {} faces, {} triangles, {} degenerate faces dropped, {} normals",
+        "twinshade: {}: {} vertices, {} faces, {} triangles, {} degenerate faces dropped, {} normals, {}",
         info.name,
         info.vertices,
         info.faces,
         info.triangles,
         info.dropped_faces,
-        if info.authored_normals { "authored" } else { "computed" }
+        if info.authored_normals { "authored" } else { "computed" },
+        if info.vertex_colors {
+            "vertex colours read"
+        } else {
+            "no vertex colours"
+        }
     );
     Ok(imported)
 }

@@ -139,6 +139,8 @@ pub struct MeshInfo {
     pub dropped_faces: usize,
     /// Whether the file's own normals are used (else computed).
     pub authored_normals: bool,
+    /// True when the file gives vertex colours.
+    pub vertex_colors: bool,
 }
 
 impl Imported {
@@ -152,6 +154,7 @@ impl Imported {
             triangles: self.mesh.triangle_count(),
             dropped_faces: self.dropped_faces,
             authored_normals: self.has_normals,
+            vertex_colors: !self.mesh.colors.is_empty(),
         }
     }
 }

@@ -53,6 +53,11 @@ pub struct Mesh {
     pub positions: Vec<Vec3>,
     /// Authored normals (unit length expected), object space; may be empty.
     pub normals: Vec<Vec3>,
+    /// Vertex colours, one per position, components 0..1; empty when the file has none.
+    /// Linear RGB unless `colors_srgb` (the renderer decodes those before use).
+    pub colors: Vec<Vec3>,
+    /// `colors` are sRGB-encoded (OBJ and PLY files, by common practice), not linear (glTF).
+    pub colors_srgb: bool,
     /// Face corners, face after face.
     pub corners: Vec<Corner>,
     /// `corners[face_starts[f]..face_starts[f + 1]]` is face `f`; starts with 0.
@@ -83,6 +88,13 @@ pub enum MeshError {
         /// How many elements there are.
         len: usize,
     },
+    /// Vertex colours given, but not one per position.
+    ColorCount {
+        /// Colours given.
+        colors: usize,
+        /// Positions.
+        positions: usize,
+    },
     /// A face with fewer than three corners.
     TooFewCorners {
         /// The face.
@@ -111,6 +123,10 @@ impl fmt::Display for MeshError {
                 "face {face} refers to element {index}, but there are only {len}"
             ),
             MeshError::TooFewCorners { face } => write!(f, "face {face} has fewer than 3 corners"),
+            MeshError::ColorCount { colors, positions } => write!(
+                f,
+                "the mesh has {colors} vertex colours for {positions} vertices"
+            ),
             MeshError::TooLarge { what, count, limit } => {
                 write!(f, "the mesh has {count} {what}; the limit is {limit}")
             }
@@ -211,7 +227,17 @@ impl Mesh {
                 limit: MAX_TRIANGLES,
             });
         }
-        for (what, list) in [("position", &self.positions), ("normal", &self.normals)] {
+        if !self.colors.is_empty() && self.colors.len() != self.positions.len() {
+            return Err(MeshError::ColorCount {
+                colors: self.colors.len(),
+                positions: self.positions.len(),
+            });
+        }
+        for (what, list) in [
+            ("position", &self.positions),
+            ("normal", &self.normals),
+            ("colour", &self.colors),
+        ] {
             if let Some(index) = list.iter().position(|p| !p.is_finite()) {
                 return Err(MeshError::NonFinite { what, index });
             }

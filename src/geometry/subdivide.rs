@@ -67,6 +67,8 @@ struct Builder {
     /// Shared normals, by the same key plus the owning corners (normals may differ on either
     /// side of a hard edge even where positions agree).
     edge_normals: HashMap<(Key, Key, u32), u32>,
+    /// The mesh has vertex colours.
+    colored: bool,
 }
 
 /// One triangle's data for evaluation.
@@ -74,9 +76,16 @@ struct Builder {
 struct Tri {
     p: [Vec3; 3],
     n: [Vec3; 3],
+    /// Vertex colours (zero when the mesh has none); interpolated linearly by both methods.
+    c: [Vec3; 3],
 }
 
 impl Tri {
+    /// The colour at barycentric weights `a`.
+    fn color(&self, a: [f32; 3]) -> Vec3 {
+        self.c[0] * a[0] + self.c[1] * a[1] + self.c[2] * a[2]
+    }
+
     /// Position and normal at barycentric weights `a` (summing to 1).
     fn eval(&self, method: SubdivisionMethod, a: [f32; 3]) -> (Vec3, Vec3) {
         match method {
@@ -142,8 +151,12 @@ impl Tri {
 }
 
 impl Builder {
-    fn position(&mut self, p: Vec3) -> u32 {
+    /// A new position with its colour (kept only when the mesh has colours).
+    fn position(&mut self, p: Vec3, color: Vec3) -> u32 {
         self.out.positions.push(p);
+        if self.colored {
+            self.out.colors.push(color);
+        }
         self.out.positions.len() as u32 - 1
     }
 
@@ -179,11 +192,13 @@ pub fn subdivide(mesh: &Mesh, method: SubdivisionMethod, levels: u32) -> Result<
         out: Mesh::new(mesh.name.clone()),
         edge_points: HashMap::new(),
         edge_normals: HashMap::new(),
+        colored: !mesh.colors.is_empty(),
     };
     b.out.corners.reserve(total * 3);
     b.out.face_starts.reserve(total + 1);
     // Original corners keep their positions and normals (both methods interpolate them).
     b.out.positions.extend_from_slice(&mesh.positions);
+    b.out.colors.extend_from_slice(&mesh.colors);
     b.out.normals.extend_from_slice(&mesh.normals);
     let normal_of = |c: Corner| {
         mesh.normals
@@ -199,6 +214,12 @@ pub fn subdivide(mesh: &Mesh, method: SubdivisionMethod, levels: u32) -> Result<
             let tri = Tri {
                 p: c.map(|c| mesh.positions[c.position as usize]),
                 n: c.map(normal_of),
+                c: c.map(|c| {
+                    mesh.colors
+                        .get(c.position as usize)
+                        .copied()
+                        .unwrap_or(Vec3::ZERO)
+                }),
             };
             // Grid point (i, j): weights ((n - i - j), i, j) / n of corners 0, 1, 2.
             grid.clear();
@@ -267,7 +288,7 @@ fn grid_corner(
         ];
         let (p, nrm) = tri.eval(method, w);
         return Corner {
-            position: b.position(p),
+            position: b.position(p, tri.color(w)),
             normal: b.normal(nrm),
         };
     };
@@ -282,13 +303,14 @@ fn grid_corner(
     let edge_tri = Tri {
         p: [tri.p[first], tri.p[second], tri.p[first]],
         n: [tri.n[first], tri.n[second], tri.n[first]],
+        c: [tri.c[first], tri.c[second], tri.c[first]],
     };
     let (p, nrm) = edge_tri.eval(method, [1.0 - t, t, 0.0]);
     let pos_key = ((c[first].position, 0), (c[second].position, 0), steps);
     let position = match b.edge_points.get(&pos_key) {
         Some(&v) => v,
         None => {
-            let v = b.position(p);
+            let v = b.position(p, edge_tri.color([1.0 - t, t, 0.0]));
             b.edge_points.insert(pos_key, v);
             v
         }

@@ -58,14 +58,16 @@ impl PolygonMode {
     }
 }
 
-/// Buffers ready to draw. Invariant: every index is below `positions.len()`, and `positions`
-/// and `normals` have the same length.
+/// Buffers ready to draw. Invariant: every index is below `positions.len()`, `positions` and
+/// `normals` have the same length, and `colors` is empty or has that length too.
 #[derive(Clone, Debug, Default)]
 pub struct VertexBuffer {
     /// Object-space positions, one per render vertex.
     pub positions: Vec<Vec3>,
     /// Object-space unit normals, one per render vertex.
     pub normals: Vec<Vec3>,
+    /// Linear vertex colours, one per render vertex, or empty when the mesh has none.
+    pub colors: Vec<Vec3>,
     /// Triangles, counter-clockwise from the front.
     pub triangles: Vec<[u32; 3]>,
     /// The authored face each triangle came from.
@@ -99,6 +101,9 @@ impl VertexBuffer {
             let next = vb.positions.len() as u32;
             let v = *index.entry((c.position, c.normal)).or_insert_with(|| {
                 vb.positions.push(mesh.positions[c.position as usize]);
+                if let Some(colour) = mesh.colors.get(c.position as usize) {
+                    vb.colors.push(*colour);
+                }
                 let n = mesh
                     .normals
                     .get(c.normal as usize)
@@ -136,12 +141,19 @@ impl VertexBuffer {
                 PolygonMode::CentreFan if n > 3 => {
                     let mut pos = Vec3::ZERO;
                     let mut nrm = Vec3::ZERO;
+                    let mut col = Vec3::ZERO;
                     for &v in &vb.polygon_vertices[s..e] {
                         pos += vb.positions[v as usize];
                         nrm += vb.normals[v as usize];
+                        if let Some(c) = vb.colors.get(v as usize) {
+                            col += *c;
+                        }
                     }
                     let centre = vb.positions.len() as u32;
                     vb.positions.push(pos / n as f32);
+                    if !vb.colors.is_empty() {
+                        vb.colors.push(col / n as f32);
+                    }
                     vb.normals.push(nrm.try_normalize().unwrap_or(Vec3::Z));
                     for i in 0..n {
                         let (a, b) = (

@@ -27,12 +27,14 @@ use crate::pipeline::raster::{
     fill, snap_xy, Batch, Coverage, Cull, FragmentShader, RasterVertex, Target,
 };
 use crate::pipeline::scanline::fill_polygon;
-use crate::pipeline::shaders::{Both, Constant, ExactSurface, PerPixel, VertexColor};
+use crate::pipeline::shaders::{
+    Both, BothTinted, Constant, ExactSurface, PerPixel, PerPixelTinted, VertexColor,
+};
 use crate::pipeline::surface::{surface_points, Probe, SurfacePoint};
 use crate::pipeline::vertex_stage::{project, StageKey, VertexStage};
 use crate::scene::definition::{Scene, ValidScene};
 use crate::scene::settings::{GltfNormals, MeshSource, NormalSettings, NormalSource, ShadingMode};
-use crate::shading::color::SrgbEncoder;
+use crate::shading::color::{srgb_to_linear, SrgbEncoder};
 use crate::shading::lighting::Lighting;
 use glam::{Mat3, Quat, Vec3, Vec4};
 use serde::Serialize;
@@ -83,6 +85,7 @@ struct Geometry {
     normals: NormalSettings,
     polygons: PolygonMode,
     subdivision: crate::geometry::subdivide::Subdivision,
+    vertex_colors: bool,
     generation: u64,
     vb: VertexBuffer,
     shape: Option<Shape>,
@@ -128,6 +131,7 @@ impl Renderer {
                 && g.normals == scene.normals
                 && g.polygons == scene.polygons
                 && g.subdivision == scene.subdivision
+                && g.vertex_colors == scene.vertex_colors
             {
                 return Ok(());
             }
@@ -150,6 +154,16 @@ impl Renderer {
         } else {
             compute_normals(&mesh, ns.weighting, ns.crease_deg, ns.coincident)
         };
+        // Vertex colours in linear light (or none), before subdivision interpolates them.
+        let mut mesh = mesh;
+        if !scene.vertex_colors {
+            mesh.colors.clear();
+        } else if mesh.colors_srgb {
+            for c in &mut mesh.colors {
+                *c = Vec3::from(c.to_array().map(srgb_to_linear));
+            }
+            mesh.colors_srgb = false;
+        }
         let sub = scene.subdivision;
         let mesh = if sub.levels > 0 {
             crate::geometry::subdivide::subdivide(&mesh, sub.method, sub.levels)
@@ -164,6 +178,7 @@ impl Renderer {
             normals: scene.normals,
             polygons: scene.polygons,
             subdivision: scene.subdivision,
+            vertex_colors: scene.vertex_colors,
             generation: self.generation,
             vb,
             shape,
@@ -228,13 +243,18 @@ impl Renderer {
     /// Lights every render vertex (Gouraud's per-vertex evaluation), once per frame.
     fn light_vertices(&mut self, lighting: &Lighting) {
         self.vertex_color.clear();
-        self.vertex_color.extend(
-            self.stage
-                .world_nrm()
-                .iter()
-                .zip(self.stage.world_pos())
-                .map(|(n, p)| lighting.shade(*n, *p)),
-        );
+        let (n, p) = (self.stage.world_nrm(), self.stage.world_pos());
+        match self.geometry.as_ref().map(|g| &g.vb.colors) {
+            Some(tints) if !tints.is_empty() => self.vertex_color.extend(
+                n.iter()
+                    .zip(p)
+                    .zip(tints)
+                    .map(|((n, p), t)| lighting.shade_tinted(*n, *p, *t)),
+            ),
+            _ => self
+                .vertex_color
+                .extend(n.iter().zip(p).map(|(n, p)| lighting.shade(*n, *p))),
+        }
     }
 
     /// Renders the Gouraud and Phong panels in one pass: coverage, depth and interpolation
@@ -265,26 +285,46 @@ impl Renderer {
             width: f.width,
             height: f.height,
         };
-        let shader = Both {
-            phong: PerPixel {
-                lighting: &f.lighting,
-                enc: SrgbEncoder::new(),
-            },
-        };
         let (c, n, p) = (
             &self.vertex_color,
             self.stage.world_nrm(),
             self.stage.world_pos(),
         );
-        let fragments = ctx.draw(
-            &mut target,
-            f.persp,
-            |v| {
-                let (c, n, p) = (c[v as usize], n[v as usize], p[v as usize]);
-                [c.x, c.y, c.z, n.x, n.y, n.z, p.x, p.y, p.z]
-            },
-            |_| shader,
-        );
+        let tints = &geo.vb.colors;
+        let fragments = if tints.is_empty() {
+            let shader = Both {
+                phong: PerPixel {
+                    lighting: &f.lighting,
+                    enc: SrgbEncoder::new(),
+                },
+            };
+            ctx.draw(
+                &mut target,
+                f.persp,
+                |v| {
+                    let (c, n, p) = (c[v as usize], n[v as usize], p[v as usize]);
+                    [c.x, c.y, c.z, n.x, n.y, n.z, p.x, p.y, p.z]
+                },
+                |_| shader,
+            )
+        } else {
+            let shader = BothTinted {
+                phong: PerPixelTinted {
+                    lighting: &f.lighting,
+                    enc: SrgbEncoder::new(),
+                },
+            };
+            ctx.draw(
+                &mut target,
+                f.persp,
+                |v| {
+                    let i = v as usize;
+                    let (c, n, p, t) = (c[i], n[i], p[i], tints[i]);
+                    [c.x, c.y, c.z, n.x, n.y, n.z, p.x, p.y, p.z, t.x, t.y, t.z]
+                },
+                |_| shader,
+            )
+        };
         phong.copy_depth_from(gouraud);
         let triangles = geo.vb.triangle_count() as u64;
         Ok([
@@ -365,7 +405,17 @@ impl Renderer {
                     for &v in poly {
                         c += world[v as usize];
                     }
-                    let col = lighting.shade(n.normalize_or_zero(), c / poly.len() as f32);
+                    let centre = c / poly.len() as f32;
+                    let col = if vb.colors.is_empty() {
+                        lighting.shade(n.normalize_or_zero(), centre)
+                    } else {
+                        // The face's mean vertex colour.
+                        let mut t = Vec3::ZERO;
+                        for &v in poly {
+                            t += vb.colors[v as usize];
+                        }
+                        lighting.shade_tinted(n.normalize_or_zero(), centre, t / poly.len() as f32)
+                    };
                     self.face_color.push(enc.pack(col.x, col.y, col.z));
                 }
                 stats.lit_vertices = vb.polygon_count() as u64;
@@ -380,6 +430,27 @@ impl Renderer {
                     &mut target,
                     persp,
                     |v| colors[v as usize].to_array(),
+                    |_| shader,
+                )
+            }
+            ShadingMode::PerPixel if !geo.vb.colors.is_empty() => {
+                let (n, p, t) = (
+                    self.stage.world_nrm(),
+                    self.stage.world_pos(),
+                    &geo.vb.colors,
+                );
+                let shader = PerPixelTinted {
+                    lighting: &lighting,
+                    enc,
+                };
+                ctx.draw(
+                    &mut target,
+                    persp,
+                    |v| {
+                        let i = v as usize;
+                        let (n, p, t) = (n[i], p[i], t[i]);
+                        [n.x, n.y, n.z, p.x, p.y, p.z, t.x, t.y, t.z]
+                    },
                     |_| shader,
                 )
             }

@@ -36,6 +36,73 @@ impl FragmentShader<9> for Both<'_> {
     }
 }
 
+/// Gouraud and Phong at once for a mesh with vertex colours: varyings 0..3 the vertex's lit
+/// colour, 3..12 the Phong normal, position and vertex colour.
+#[derive(Clone, Copy)]
+pub(crate) struct BothTinted<'a> {
+    pub phong: PerPixelTinted<'a>,
+}
+
+impl FragmentShader<12> for BothTinted<'_> {
+    type Out = [u32; 2];
+    const BATCH: bool = true;
+
+    #[inline(always)]
+    fn shade(&self, v: &[f32; 12]) -> [u32; 2] {
+        let p = [v[3], v[4], v[5], v[6], v[7], v[8], v[9], v[10], v[11]];
+        [self.phong.enc.pack(v[0], v[1], v[2]), self.phong.shade(&p)]
+    }
+
+    #[inline(always)]
+    fn shade4(&self, v: &[[f32; 12]; 4]) -> [[u32; 2]; 4] {
+        let lanes = |k: usize| {
+            let x = &v[k];
+            [x[3], x[4], x[5], x[6], x[7], x[8], x[9], x[10], x[11]]
+        };
+        let p = self.phong.shade4(&[lanes(0), lanes(1), lanes(2), lanes(3)]);
+        let g = |k: usize| self.phong.enc.pack(v[k][0], v[k][1], v[k][2]);
+        [[g(0), p[0]], [g(1), p[1]], [g(2), p[2]], [g(3), p[3]]]
+    }
+}
+
+/// Phong for a mesh with vertex colours: normal, position and the interpolated vertex colour,
+/// which tints the base colour at the pixel.
+#[derive(Clone, Copy)]
+pub(crate) struct PerPixelTinted<'a> {
+    pub lighting: &'a Lighting,
+    pub enc: SrgbEncoder,
+}
+
+impl FragmentShader<9> for PerPixelTinted<'_> {
+    type Out = u32;
+    const BATCH: bool = true;
+
+    #[inline(always)]
+    fn shade(&self, v: &[f32; 9]) -> u32 {
+        let n = Vec3::new(v[0], v[1], v[2]).normalize_or_zero();
+        let c =
+            self.lighting
+                .shade_tinted(n, Vec3::new(v[3], v[4], v[5]), Vec3::new(v[6], v[7], v[8]));
+        self.enc.pack(c.x, c.y, c.z)
+    }
+
+    #[inline(always)]
+    fn shade4(&self, v: &[[f32; 9]; 4]) -> [u32; 4] {
+        let lane = |j: usize| F4::new([v[0][j], v[1][j], v[2][j], v[3][j]]);
+        let vec = |j: usize| V4 {
+            x: lane(j),
+            y: lane(j + 1),
+            z: lane(j + 2),
+        };
+        let c = self
+            .lighting
+            .shade4_tinted(vec(0).normalize_or_zero(), vec(3), vec(6));
+        let (r, g, b) = (c.x.to_array(), c.y.to_array(), c.z.to_array());
+        let px = |k: usize| self.enc.pack(r[k], g[k], b[k]);
+        [px(0), px(1), px(2), px(3)]
+    }
+}
+
 /// Flat: a constant colour.
 #[derive(Clone, Copy)]
 pub(crate) struct Constant(pub u32);

@@ -50,6 +50,9 @@ pub struct Scene {
     pub ambient_light: Rgb,
     /// The surface.
     pub material: Material,
+    /// Vertex colours of a mesh file (glTF `COLOR_0`, PLY `red green blue`, OBJ
+    /// `v x y z r g b`) multiply the base colour; false ignores them.
+    pub vertex_colors: bool,
     /// Specular reflection model.
     pub model: ReflectionModel,
     /// Skip faces turned away from the camera.
@@ -101,6 +104,7 @@ impl Default for Scene {
             ],
             ambient_light: Rgb::hex("#ffffff"),
             material: Material::default(),
+            vertex_colors: true,
             model: ReflectionModel::BlinnPhong,
             cull_back_faces: true,
             perspective_correct: true,
@@ -406,6 +410,7 @@ impl Scene {
             lights,
             ambient_light,
             material,
+            vertex_colors,
             model,
             cull_back_faces,
             perspective_correct,
@@ -424,6 +429,7 @@ impl Scene {
             && *lights == other.lights
             && *ambient_light == other.ambient_light
             && *material == other.material
+            && *vertex_colors == other.vertex_colors
             && *model == other.model
             && *cull_back_faces == other.cull_back_faces
             && *perspective_correct == other.perspective_correct

@@ -124,8 +124,10 @@ const FORMAT_1: &str = r##"{
 
 /// Fields that format 1 did not have, with the values that reproduce what format-1 builds
 /// did: normals computed with each position index its own vertex, glTF files without normals
-/// smoothed, and a metallic-roughness material that only the (then absent) model reads.
+/// smoothed, vertex colours ignored, and a metallic-roughness material that only the (then
+/// absent) model reads.
 const FORMAT_1_LATER_FIELDS: &str = r##"{
+    "vertex_colors": false,
     "normals": {
         "coincident": "separate",
         "gltf_without_normals": "smooth"
@@ -137,9 +139,9 @@ const FORMAT_1_LATER_FIELDS: &str = r##"{
 }"##;
 
 /// Format 2: the glTF metallic-roughness model (material `roughness`, `metallic`; model
-/// `metallic_roughness`); computed normals join corners at the same position; glTF files
-/// without normals are shaded flat, as the glTF specification requires. Every format-1
-/// default is unchanged.
+/// `metallic_roughness`); vertex colours of mesh files are used; computed normals join
+/// corners at the same position; glTF files without normals are shaded flat, as the glTF
+/// specification requires. Every format-1 default is unchanged.
 const FORMAT_2: &str = r##"{
     "version": 2,
     "mesh": {
@@ -210,6 +212,7 @@ const FORMAT_2: &str = r##"{
         "roughness": 0.5,
         "metallic": 0.0
     },
+    "vertex_colors": true,
     "model": "blinn_phong",
     "cull_back_faces": true,
     "perspective_correct": true,

@@ -230,6 +230,9 @@ struct Microfacet {
     one_minus_f0: Vec3,
     diffuse: Vec3,
     alpha2: f32,
+    /// f0's untinted part, 0.04 (1 - metallic), and its tinted part, base metallic.
+    f0_plain: f32,
+    f0_base: Vec3,
 }
 
 impl Microfacet {
@@ -240,6 +243,8 @@ impl Microfacet {
         let f0 = Vec3::splat(DIELECTRIC_F0 * (1.0 - m)) + base * m;
         Microfacet {
             f0,
+            f0_plain: DIELECTRIC_F0 * (1.0 - m),
+            f0_base: base * m,
             one_minus_f0: Vec3::ONE - f0,
             diffuse: base * ((1.0 - m) * (1.0 - DIELECTRIC_F0)),
             alpha2: alpha * alpha,
@@ -319,6 +324,13 @@ pub struct Lighting {
     constant: Vec3,
     diffuse: Vec3,
     specular: Vec3,
+    /// The parts a vertex colour tints (see [`Lighting::shade_tinted`]): ambient times the
+    /// base colour, the emitted colour, and the specular colour split into its untinted
+    /// (dielectric) and tinted (metal) parts.
+    ambient_base: Vec3,
+    emissive: Vec3,
+    specular_plain: Vec3,
+    specular_base: Vec3,
     shininess: f32,
     blinn: bool,
     /// The metallic-roughness model, when it is the scene's.
@@ -360,7 +372,15 @@ impl Lighting {
             Finish::Dielectric => Vec3::ONE,
             Finish::Metal => base,
         };
+        let (specular_plain, specular_base) = match material.finish {
+            Finish::Dielectric => (Vec3::splat(material.specular), Vec3::ZERO),
+            Finish::Metal => (Vec3::ZERO, base * material.specular),
+        };
         Lighting {
+            ambient_base: base * linear_of(ambient_light) * material.ambient,
+            emissive: linear_of(material.emissive) * material.emissive_strength,
+            specular_plain,
+            specular_base,
             lights: prepared,
             count: lights.len().min(MAX_LIGHTS),
             constant: base * linear_of(ambient_light) * material.ambient
@@ -511,6 +531,157 @@ impl Lighting {
             };
         }
         col
+    }
+
+    /// [`Lighting::shade`] with the base colour multiplied by `tint` (a vertex colour, linear):
+    /// every term that the base colour scales (ambient, diffuse, a metal's highlight, the glTF
+    /// model's f0) is scaled by it; light-coloured highlights and emission are not. The result
+    /// is affine in the tint, `plain + tinted * tint`, summed in that form.
+    #[inline]
+    pub fn shade_tinted(&self, n: Vec3, p: Vec3, tint: Vec3) -> Vec3 {
+        let v = if self.orthographic {
+            self.toward_eye
+        } else {
+            (self.eye - p).normalize_or_zero()
+        };
+        let mut plain = self.emissive;
+        let mut tinted = self.ambient_base;
+        for light in &self.lights[..self.count] {
+            let (l, c) = if light.point {
+                let d = light.vector - p;
+                let d2 = d.length_squared();
+                let att = 1.0 / (1.0 + light.falloff * d2);
+                (d.normalize_or_zero(), light.color * att)
+            } else {
+                (light.vector, light.color)
+            };
+            let ndl = n.dot(l);
+            // Not `ndl <= 0.0`: a NaN must skip the light too, as the four-lane mask does.
+            if !ndl.gt(&0.0) {
+                continue;
+            }
+            let cl = c * ndl;
+            if let Some(g) = &self.gltf {
+                let h = (l + v).normalize_or_zero();
+                let ndv = n.dot(v).abs();
+                let fw = schlick_weight(v.dot(h).abs());
+                let lobe = ggx_lobe(g.alpha2, n.dot(h), ndl, ndv);
+                let one_minus_fw = 1.0 - fw;
+                plain += cl * ((g.f0_plain * one_minus_fw + fw) * lobe);
+                tinted += (g.diffuse * one_minus_fw + g.f0_base * (one_minus_fw * lobe)) * cl;
+                continue;
+            }
+            let s = if self.blinn {
+                n.dot((l + v).normalize_or_zero())
+            } else {
+                (n * (2.0 * ndl) - l).dot(v)
+            };
+            let spec = if s > 0.0 {
+                specular_power(s, self.shininess)
+            } else {
+                0.0
+            };
+            plain += self.specular_plain * spec * c;
+            tinted += (self.diffuse * ndl + self.specular_base * spec) * c;
+        }
+        plain + tinted * tint
+    }
+
+    /// [`Lighting::shade_tinted`] for four fragments, bit-identical lane by lane.
+    #[inline]
+    pub fn shade4_tinted(&self, n: V4, p: V4, tint: V4) -> V4 {
+        let v = if self.orthographic {
+            V4::splat(self.toward_eye)
+        } else {
+            (V4::splat(self.eye) - p).normalize_or_zero()
+        };
+        let mut plain = V4::splat(self.emissive);
+        let mut tinted = V4::splat(self.ambient_base);
+        for light in &self.lights[..self.count] {
+            let (l, c) = if light.point {
+                let d = V4::splat(light.vector) - p;
+                let d2 = d.dot(d);
+                let att = F4::splat(1.0) / (d2 * light.falloff + 1.0);
+                (
+                    d.normalize_or_zero(),
+                    V4 {
+                        x: att * light.color.x,
+                        y: att * light.color.y,
+                        z: att * light.color.z,
+                    },
+                )
+            } else {
+                (V4::splat(light.vector), V4::splat(light.color))
+            };
+            let ndl = n.dot(l);
+            let lit = ndl.gt(0.0);
+            let cl = V4 {
+                x: c.x * ndl,
+                y: c.y * ndl,
+                z: c.z * ndl,
+            };
+            let (add_plain, add_tinted) = if let Some(g) = &self.gltf {
+                let h = (l + v).normalize_or_zero();
+                let ndv = n.dot(v).abs();
+                let fw = schlick_weight4(v.dot(h).abs());
+                let lobe = ggx_lobe4(g.alpha2, n.dot(h), ndl, ndv);
+                let one_minus_fw = F4::splat(1.0) - fw;
+                let k = (one_minus_fw * g.f0_plain + fw) * lobe;
+                let w = one_minus_fw * lobe;
+                let t = |d: f32, b: f32, c: F4| (one_minus_fw * d + w * b) * c;
+                (
+                    V4 {
+                        x: cl.x * k,
+                        y: cl.y * k,
+                        z: cl.z * k,
+                    },
+                    V4 {
+                        x: t(g.diffuse.x, g.f0_base.x, cl.x),
+                        y: t(g.diffuse.y, g.f0_base.y, cl.y),
+                        z: t(g.diffuse.z, g.f0_base.z, cl.z),
+                    },
+                )
+            } else {
+                let s = if self.blinn {
+                    n.dot((l + v).normalize_or_zero())
+                } else {
+                    (n.scale(ndl * 2.0) - l).dot(v)
+                };
+                let spec = F4::select(
+                    s.gt(0.0),
+                    specular_power4(s, self.shininess),
+                    F4::splat(0.0),
+                );
+                let t = |d: f32, b: f32, c: F4| (ndl * d + spec * b) * c;
+                (
+                    V4 {
+                        x: spec * self.specular_plain.x * c.x,
+                        y: spec * self.specular_plain.y * c.y,
+                        z: spec * self.specular_plain.z * c.z,
+                    },
+                    V4 {
+                        x: t(self.diffuse.x, self.specular_base.x, c.x),
+                        y: t(self.diffuse.y, self.specular_base.y, c.y),
+                        z: t(self.diffuse.z, self.specular_base.z, c.z),
+                    },
+                )
+            };
+            plain = V4 {
+                x: F4::select(lit, plain.x + add_plain.x, plain.x),
+                y: F4::select(lit, plain.y + add_plain.y, plain.y),
+                z: F4::select(lit, plain.z + add_plain.z, plain.z),
+            };
+            tinted = V4 {
+                x: F4::select(lit, tinted.x + add_tinted.x, tinted.x),
+                y: F4::select(lit, tinted.y + add_tinted.y, tinted.y),
+                z: F4::select(lit, tinted.z + add_tinted.z, tinted.z),
+            };
+        }
+        V4 {
+            x: plain.x + tinted.x * tint.x,
+            y: plain.y + tinted.y * tint.y,
+            z: plain.z + tinted.z * tint.z,
+        }
     }
 
     /// The specular colour factor (used to find highlight pixels in measurements).

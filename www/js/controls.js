@@ -72,6 +72,7 @@ export function syncControls() {
   $("normal-source").value = s.normals.source;
   $("normal-weighting").value = s.normals.weighting;
   $("coincident").value = s.normals.coincident;
+  $("vertex-colors").checked = s.vertex_colors;
   $("gltf-normals").value = s.normals.gltf_without_normals;
   $("crease").value = s.normals.crease_deg;
   $("crease-out").textContent = s.normals.crease_deg >= 180 ? "smooth" : `${Math.round(s.normals.crease_deg)}°`;
@@ -147,6 +148,7 @@ export function bindControls() {
   });
   on("roughness", "input", (s) => { s.material.roughness = +$("roughness").value; });
   on("metallic", "input", (s) => { s.material.metallic = +$("metallic").value; });
+  on("vertex-colors", "change", (s) => { s.vertex_colors = $("vertex-colors").checked; });
   on("coincident", "change", (s) => { s.normals.coincident = $("coincident").value; });
   on("gltf-normals", "change", (s) => { s.normals.gltf_without_normals = $("gltf-normals").value; });
   on("shininess", "input", (s) => { s.material.shininess = sliderToShininess(+$("shininess").value); });

@@ -13,7 +13,8 @@ export function loadMeshBytes(name, bytes) {
     $("mesh-info").textContent =
       `${info.name}: ${fmt(info.vertices)} vertices, ${fmt(info.faces)} faces, ` +
       `${fmt(info.triangles)} triangles, ${fmt(info.dropped_faces)} degenerate faces dropped; ` +
-      `normals ${info.authored_normals ? "in the file" : "not in the file (computed)"}.`;
+      `normals ${info.authored_normals ? "in the file" : "not in the file (computed)"}; ` +
+      `${info.vertex_colors ? "vertex colours in the file" : "no vertex colours"}.`;
     leavePreset();
     syncControls();
     requestRender();

@@ -80,6 +80,7 @@ pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
 
     let mut mesh = Mesh::new("");
     mesh.flat_if_no_normals = true;
+    let mut any_colors = false;
     let mut triangles = 0usize;
     let mut add = |node: &gltf::Node, world: Mat4| -> Result<(), ParseError> {
         let Some(m) = node.mesh() else {
@@ -118,6 +119,24 @@ pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
             let normals_ok = prim
                 .get(&gltf::Semantic::Normals)
                 .is_some_and(|a| is(&a, &[DataType::F32], Dimensions::Vec3));
+            // COLOR_0: float, or normalized unsigned byte or short; RGB or RGBA (glTF 2.0,
+            // "Meshes", attribute table). Linear, as the specification says.
+            let colors_given = match prim.get(&gltf::Semantic::Colors(0)) {
+                None => false,
+                Some(a) => {
+                    let types = [DataType::F32, DataType::U8, DataType::U16];
+                    let ok = (is(&a, &types, Dimensions::Vec3) || is(&a, &types, Dimensions::Vec4))
+                        && (a.data_type() == DataType::F32 || a.normalized());
+                    if !ok {
+                        return Err(ParseError::file(format!(
+                            "mesh {} primitive {}: COLOR_0 must be RGB or RGBA floats or normalized unsigned bytes or shorts",
+                            m.index(),
+                            prim.index()
+                        )));
+                    }
+                    true
+                }
+            };
             if let Some(a) = prim.indices() {
                 if !is(
                     &a,
@@ -161,6 +180,29 @@ pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
                     .collect()
                 });
             let has_normals = normals.as_ref().is_some_and(|n| n.len() == count as usize);
+            // Colours per position; white for a primitive without them (dropped at the end
+            // when no primitive has any). The alpha channel is not used.
+            let colors: Vec<Vec3> = if colors_given {
+                reader
+                    .read_colors(0)
+                    .map(|c| c.into_rgb_f32().map(Vec3::from).collect())
+                    .unwrap_or_default()
+            } else {
+                Vec::new()
+            };
+            if colors.len() == count as usize && colors.iter().all(|c| c.is_finite()) {
+                any_colors = true;
+                mesh.colors.extend(colors);
+            } else if colors_given {
+                return Err(ParseError::file(format!(
+                    "mesh {} primitive {}: COLOR_0 does not give a finite colour for each of its {count} vertices",
+                    m.index(),
+                    prim.index()
+                )));
+            } else {
+                mesh.colors
+                    .extend(std::iter::repeat_n(Vec3::ONE, count as usize));
+            }
             let nbase = mesh.normals.len() as u32;
             if has_normals {
                 mesh.normals.extend(normals.unwrap_or_default());
@@ -260,6 +302,9 @@ pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
         for c in &mut mesh.corners {
             c.normal = crate::geometry::mesh::NO_NORMAL;
         }
+    }
+    if !any_colors {
+        mesh.colors.clear();
     }
     Ok(mesh)
 }

@@ -1,10 +1,16 @@
 //! Wavefront OBJ: `v` positions, `vn` normals, `f` faces of any size (kept as polygons),
-//! negative (relative) indices, several objects and groups merged into one mesh. Texture
-//! coordinates, materials, smoothing groups, lines and points are read past.
+//! negative (relative) indices, several objects and groups merged into one mesh, and vertex
+//! colours written as `v x y z r g b`. Texture coordinates, materials, smoothing groups, lines
+//! and points are read past.
 
 use super::{xyz, ParseError};
 use crate::geometry::mesh::{Corner, Mesh, MAX_TRIANGLES, NO_NORMAL};
 use glam::Vec3;
+
+/// A colour of components in 0..1 (clamped), kept sRGB-encoded (see [`Mesh::colors`]).
+fn srgb_colour(c: [f32; 3]) -> Vec3 {
+    Vec3::from(c.map(|v| v.clamp(0.0, 1.0)))
+}
 
 /// Resolves a 1-based (or negative, relative) OBJ index against `len` elements.
 fn resolve(token: &str, len: usize, what: &str, line: usize) -> Result<u32, ParseError> {
@@ -34,6 +40,7 @@ pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
         )
     })?;
     let mut mesh = Mesh::new("");
+    let mut colors: Vec<Option<Vec3>> = Vec::new();
     let mut corners: Vec<Corner> = Vec::new();
     let mut triangles = 0usize;
     for (i, raw) in text.lines().enumerate() {
@@ -48,6 +55,19 @@ pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
                 let v = xyz(&mut tokens, keyword, line)?;
                 if keyword == "v" {
                     mesh.positions.push(v);
+                    // `v x y z r g b`: a vertex colour, 0..1, taken as sRGB-encoded (common
+                    // practice: tools write the colours they display). `v x y z w` is left be.
+                    let rest: Vec<&str> = tokens.collect();
+                    if rest.len() == 3 {
+                        let mut c = [0.0f32; 3];
+                        for (slot, t) in c.iter_mut().zip(&rest) {
+                            *slot = crate::geometry::import::number(t).ok_or_else(|| {
+                                ParseError::line(line, format!("'{t}' is not a finite number"))
+                            })?;
+                        }
+                        colors.resize(mesh.positions.len() - 1, None);
+                        colors.push(Some(srgb_colour(c)));
+                    }
                 } else {
                     mesh.normals.push(v.try_normalize().unwrap_or(Vec3::Z));
                 }
@@ -107,6 +127,12 @@ pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
     }
     // A face that names normals for some corners but not others uses none.
     let mut out = Mesh::new("");
+    if !colors.is_empty() {
+        // Positions written without a colour are white.
+        colors.resize(mesh.positions.len(), None);
+        out.colors = colors.iter().map(|c| c.unwrap_or(Vec3::ONE)).collect();
+        out.colors_srgb = true;
+    }
     out.positions = mesh.positions;
     out.normals = mesh.normals;
     for f in 0..mesh.face_starts.len().saturating_sub(1) {

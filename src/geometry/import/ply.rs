@@ -1,5 +1,5 @@
 //! PLY (Stanford polygon format), ASCII and binary (little or big endian): the `vertex`
-//! element's `x y z` (and `nx ny nz` when present) and the `face` element's vertex index list
+//! element's `x y z` (with `nx ny nz` and `red green blue` when present) and the `face` element's vertex index list
 //! (`vertex_indices` or `vertex_index`); other elements and properties are read past. Our own
 //! parser, like OBJ's and STL's, so errors carry a line or byte offset.
 
@@ -261,6 +261,17 @@ pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
         let xyz = [idx("x"), idx("y"), idx("z")];
         let nxyz = [idx("nx"), idx("ny"), idx("nz")];
         let with_normals = nxyz.iter().all(Option::is_some);
+        // Vertex colours: `red`, `green`, `blue` (`alpha` is not used); integers scaled by
+        // their type's largest value (uchar: 255), floats taken as 0..1; sRGB-encoded by
+        // common practice (see Mesh::colors).
+        let rgb = [idx("red"), idx("green"), idx("blue")];
+        let with_colors = is_vertex && rgb.iter().all(Option::is_some);
+        let colour_scale = rgb[0].map_or(1.0, |k| match el.properties[k].value {
+            Scalar::U8 | Scalar::I8 => 255.0,
+            Scalar::U16 | Scalar::I16 => 65535.0,
+            Scalar::U32 | Scalar::I32 => 4_294_967_295.0,
+            Scalar::F32 | Scalar::F64 => 1.0,
+        });
         let list = idx("vertex_indices").or_else(|| idx("vertex_index"));
         if is_vertex && xyz.iter().any(Option::is_none) {
             return Err(ParseError::line(
@@ -325,6 +336,11 @@ pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
                     )));
                 }
                 mesh.positions.push(p);
+                if with_colors {
+                    let c = get(rgb) / colour_scale as f32;
+                    mesh.colors.push(c.clamp(Vec3::ZERO, Vec3::ONE));
+                    mesh.colors_srgb = true;
+                }
                 if with_normals {
                     mesh.normals
                         .push(get(nxyz).try_normalize().unwrap_or(Vec3::Z));
