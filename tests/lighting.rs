@@ -3,6 +3,27 @@
 
 use twinshade::shading::specular_power;
 
+/// Numbers in [-1, 1) from a xorshift generator seeded with `state` (deterministic, so a
+/// failing case can be found again).
+fn uniform(mut state: u64) -> impl FnMut() -> f32 {
+    move || {
+        state ^= state << 13;
+        state ^= state >> 7;
+        state ^= state << 17;
+        (state >> 40) as f32 / (1u64 << 24) as f32 * 2.0 - 1.0
+    }
+}
+
+/// Four vectors as lanes.
+fn lanes(v: &[glam::Vec3; 4]) -> twinshade::shading::V4 {
+    use twinshade::shading::{F4, V4};
+    V4 {
+        x: F4::new(v.map(|v| v.x)),
+        y: F4::new(v.map(|v| v.y)),
+        z: F4::new(v.map(|v| v.z)),
+    }
+}
+
 #[test]
 fn specular_power_matches_powf() {
     let mut worst_int = 0.0f64;
@@ -34,15 +55,8 @@ fn four_lane_lighting_is_bit_identical_to_scalar() {
     // optimised path), for every reflection model, both projections and both light kinds.
     use glam::Vec3;
     use twinshade::shading::{Lighting, ReflectionModel};
-    use twinshade::shading::{F4, V4};
     use twinshade::Scene;
-    let mut state = 0x9e37_79b9_7f4a_7c15u64;
-    let mut next = || {
-        state ^= state << 13;
-        state ^= state >> 7;
-        state ^= state << 17;
-        (state >> 40) as f32 / (1u64 << 24) as f32 * 2.0 - 1.0
-    };
+    let mut next = uniform(0x9e37_79b9_7f4a_7c15);
     for (model, ortho, metallic) in [
         (ReflectionModel::BlinnPhong, false, 0.0),
         (ReflectionModel::Phong, false, 0.0),
@@ -74,11 +88,6 @@ fn four_lane_lighting_is_bit_identical_to_scalar() {
             let n: [Vec3; 4] =
                 [0; 4].map(|_| Vec3::new(next(), next(), next()).normalize_or_zero());
             let p: [Vec3; 4] = [0; 4].map(|_| Vec3::new(next(), next(), next()));
-            let lanes = |v: &[Vec3; 4]| V4 {
-                x: F4::new(v.map(|v| v.x)),
-                y: F4::new(v.map(|v| v.y)),
-                z: F4::new(v.map(|v| v.z)),
-            };
             let got = l.shade4(lanes(&n), lanes(&p));
             for k in 0..4 {
                 let want = l.shade(n[k], p[k]);
@@ -103,15 +112,8 @@ fn four_lane_lighting_is_bit_identical_to_scalar() {
 fn tinted_lighting_four_lanes_are_bit_identical_and_a_white_tint_changes_nothing() {
     use glam::Vec3;
     use twinshade::shading::{Finish, Lighting, ReflectionModel};
-    use twinshade::shading::{F4, V4};
     use twinshade::Scene;
-    let mut state = 0x2545_f491_4f6c_dd1du64;
-    let mut next = || {
-        state ^= state << 13;
-        state ^= state >> 7;
-        state ^= state << 17;
-        (state >> 40) as f32 / (1u64 << 24) as f32 * 2.0 - 1.0
-    };
+    let mut next = uniform(0x2545_f491_4f6c_dd1d);
     for (model, finish, metallic) in [
         (ReflectionModel::BlinnPhong, Finish::Dielectric, 0.0),
         (ReflectionModel::Phong, Finish::Metal, 0.0),
@@ -139,11 +141,6 @@ fn tinted_lighting_four_lanes_are_bit_identical_and_a_white_tint_changes_nothing
                 [0; 4].map(|_| Vec3::new(next(), next(), next()).normalize_or_zero());
             let p: [Vec3; 4] = [0; 4].map(|_| Vec3::new(next(), next(), next()));
             let t: [Vec3; 4] = [0; 4].map(|_| Vec3::new(next(), next(), next()).abs());
-            let lanes = |v: &[Vec3; 4]| V4 {
-                x: F4::new(v.map(|v| v.x)),
-                y: F4::new(v.map(|v| v.y)),
-                z: F4::new(v.map(|v| v.z)),
-            };
             let got = l.shade4_tinted(lanes(&n), lanes(&p), lanes(&t));
             for k in 0..4 {
                 let want = l.shade_tinted(n[k], p[k], t[k]);

@@ -315,6 +315,42 @@ struct PreparedLight {
     falloff: f32,
 }
 
+impl PreparedLight {
+    /// The unit direction toward the light from `p` and the light's colour arriving there
+    /// (a point light's falls off as 1 / (1 + k d^2)).
+    #[inline(always)]
+    fn incident(&self, p: Vec3) -> (Vec3, Vec3) {
+        if self.point {
+            let d = self.vector - p;
+            let d2 = d.length_squared();
+            let att = 1.0 / (1.0 + self.falloff * d2);
+            (d.normalize_or_zero(), self.color * att)
+        } else {
+            (self.vector, self.color)
+        }
+    }
+
+    /// [`PreparedLight::incident`] for four points, bit-identical lane by lane.
+    #[inline(always)]
+    fn incident4(&self, p: V4) -> (V4, V4) {
+        if self.point {
+            let d = V4::splat(self.vector) - p;
+            let d2 = d.dot(d);
+            let att = F4::splat(1.0) / (d2 * self.falloff + 1.0);
+            (
+                d.normalize_or_zero(),
+                V4 {
+                    x: att * self.color.x,
+                    y: att * self.color.y,
+                    z: att * self.color.z,
+                },
+            )
+        } else {
+            (V4::splat(self.vector), V4::splat(self.color))
+        }
+    }
+}
+
 /// Everything the reflection model needs for one frame, prepared once: linear colours,
 /// world-space light vectors and the eye.
 #[derive(Clone, Copy, Debug)]
@@ -407,14 +443,7 @@ impl Lighting {
         };
         let mut col = self.constant;
         for light in &self.lights[..self.count] {
-            let (l, c) = if light.point {
-                let d = light.vector - p;
-                let d2 = d.length_squared();
-                let att = 1.0 / (1.0 + light.falloff * d2);
-                (d.normalize_or_zero(), light.color * att)
-            } else {
-                (light.vector, light.color)
-            };
+            let (l, c) = light.incident(p);
             let ndl = n.dot(l);
             if let Some(g) = &self.gltf {
                 if ndl > 0.0 {
@@ -456,21 +485,7 @@ impl Lighting {
         };
         let mut col = V4::splat(self.constant);
         for light in &self.lights[..self.count] {
-            let (l, c) = if light.point {
-                let d = V4::splat(light.vector) - p;
-                let d2 = d.dot(d);
-                let att = F4::splat(1.0) / (d2 * light.falloff + 1.0);
-                (
-                    d.normalize_or_zero(),
-                    V4 {
-                        x: att * light.color.x,
-                        y: att * light.color.y,
-                        z: att * light.color.z,
-                    },
-                )
-            } else {
-                (V4::splat(light.vector), V4::splat(light.color))
-            };
+            let (l, c) = light.incident4(p);
             let ndl = n.dot(l);
             let lit = ndl.gt(0.0);
             if let Some(g) = &self.gltf {
@@ -547,14 +562,7 @@ impl Lighting {
         let mut plain = self.emissive;
         let mut tinted = self.ambient_base;
         for light in &self.lights[..self.count] {
-            let (l, c) = if light.point {
-                let d = light.vector - p;
-                let d2 = d.length_squared();
-                let att = 1.0 / (1.0 + light.falloff * d2);
-                (d.normalize_or_zero(), light.color * att)
-            } else {
-                (light.vector, light.color)
-            };
+            let (l, c) = light.incident(p);
             let ndl = n.dot(l);
             // Not `ndl <= 0.0`: a NaN must skip the light too, as the four-lane mask does.
             if !ndl.gt(&0.0) {
@@ -598,21 +606,7 @@ impl Lighting {
         let mut plain = V4::splat(self.emissive);
         let mut tinted = V4::splat(self.ambient_base);
         for light in &self.lights[..self.count] {
-            let (l, c) = if light.point {
-                let d = V4::splat(light.vector) - p;
-                let d2 = d.dot(d);
-                let att = F4::splat(1.0) / (d2 * light.falloff + 1.0);
-                (
-                    d.normalize_or_zero(),
-                    V4 {
-                        x: att * light.color.x,
-                        y: att * light.color.y,
-                        z: att * light.color.z,
-                    },
-                )
-            } else {
-                (V4::splat(light.vector), V4::splat(light.color))
-            };
+            let (l, c) = light.incident4(p);
             let ndl = n.dot(l);
             let lit = ndl.gt(0.0);
             let cl = V4 {
