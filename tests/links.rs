@@ -77,12 +77,13 @@ fn scenes() -> Vec<(String, Scene)> {
 /// The default scene of format 1 as this build reads it: today's defaults where format 1 had
 /// the field, and for fields added later the values that reproduce what format-1 builds did
 /// (computed normals kept seams apart; glTF files without normals were smoothed; vertex
-/// colours were ignored).
+/// colours and file materials were ignored).
 fn format_1_default() -> Scene {
     let mut s = Scene::default();
     s.normals.coincident = twinshade::geometry::Coincident::Separate;
     s.normals.gltf_without_normals = twinshade::scene::GltfNormals::Smooth;
     s.vertex_colors = false;
+    s.material_source = twinshade::scene::MaterialSource::Scene;
     s
 }
 

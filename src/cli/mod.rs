@@ -633,7 +633,7 @@ fn load_mesh(path: &Path) -> Result<twinshade::geometry::Imported, String> {
     let imported = twinshade::geometry::import(&name, &bytes).map_err(|e| e.to_string())?;
     let info = imported.info();
     eprintln!(
-        "twinshade: {}: {} vertices, {} faces, {} triangles, {} degenerate faces dropped, {} normals, {}",
+        "twinshade: {}: {} vertices, {} faces, {} triangles, {} degenerate faces dropped, {} normals, {}, {} materials",
         info.name,
         info.vertices,
         info.faces,
@@ -644,7 +644,8 @@ fn load_mesh(path: &Path) -> Result<twinshade::geometry::Imported, String> {
             "vertex colours read"
         } else {
             "no vertex colours"
-        }
+        },
+        info.materials
     );
     Ok(imported)
 }

@@ -141,6 +141,8 @@ pub struct MeshInfo {
     pub authored_normals: bool,
     /// True when the file gives vertex colours.
     pub vertex_colors: bool,
+    /// Materials the file gives (glTF; 0 when it gives none).
+    pub materials: usize,
 }
 
 impl Imported {
@@ -155,6 +157,7 @@ impl Imported {
             dropped_faces: self.dropped_faces,
             authored_normals: self.has_normals,
             vertex_colors: !self.mesh.colors.is_empty(),
+            materials: self.mesh.materials.len(),
         }
     }
 }

@@ -21,6 +21,38 @@ pub struct Corner {
     pub normal: u32,
 }
 
+/// A material as a mesh file states it, in the file's own terms (linear factors).
+#[derive(Clone, Debug, PartialEq)]
+pub struct FileMaterial {
+    /// The material's name in the file ("material N" when it has none).
+    pub name: String,
+    /// glTF `baseColorFactor` RGB, linear (alpha is not used).
+    pub base_color: Vec3,
+    /// glTF `metallicFactor`.
+    pub metallic: f32,
+    /// glTF `roughnessFactor`.
+    pub roughness: f32,
+    /// glTF `emissiveFactor`, linear.
+    pub emissive: Vec3,
+    /// glTF `doubleSided`: both faces drawn (no back-face culling).
+    pub double_sided: bool,
+}
+
+impl Default for FileMaterial {
+    /// The glTF 2.0 default material: base colour 1, metallic 1, roughness 1, no emission,
+    /// single-sided.
+    fn default() -> Self {
+        FileMaterial {
+            name: String::new(),
+            base_color: Vec3::ONE,
+            metallic: 1.0,
+            roughness: 1.0,
+            emissive: Vec3::ZERO,
+            double_sided: false,
+        }
+    }
+}
+
 /// How [`Mesh::fit_unit`] moved a mesh: fitted = (authored - `centre`) x `scale`.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Fit {
@@ -58,6 +90,10 @@ pub struct Mesh {
     pub colors: Vec<Vec3>,
     /// `colors` are sRGB-encoded (OBJ and PLY files, by common practice), not linear (glTF).
     pub colors_srgb: bool,
+    /// The file's materials (glTF materials), in the file's order; empty when it has none.
+    pub materials: Vec<FileMaterial>,
+    /// The material of each face, an index into `materials`; empty when `materials` is.
+    pub face_material: Vec<u32>,
     /// Face corners, face after face.
     pub corners: Vec<Corner>,
     /// `corners[face_starts[f]..face_starts[f + 1]]` is face `f`; starts with 0.
@@ -88,6 +124,8 @@ pub enum MeshError {
         /// How many elements there are.
         len: usize,
     },
+    /// Face materials given, but not one valid material per face.
+    MaterialIndex,
     /// Vertex colours given, but not one per position.
     ColorCount {
         /// Colours given.
@@ -123,6 +161,9 @@ impl fmt::Display for MeshError {
                 "face {face} refers to element {index}, but there are only {len}"
             ),
             MeshError::TooFewCorners { face } => write!(f, "face {face} has fewer than 3 corners"),
+            MeshError::MaterialIndex => {
+                f.write_str("the faces' materials do not match the mesh's material list")
+            }
             MeshError::ColorCount { colors, positions } => write!(
                 f,
                 "the mesh has {colors} vertex colours for {positions} vertices"
@@ -227,6 +268,15 @@ impl Mesh {
                 limit: MAX_TRIANGLES,
             });
         }
+        if !self.face_material.is_empty()
+            && (self.face_material.len() != self.face_count()
+                || self
+                    .face_material
+                    .iter()
+                    .any(|&m| m as usize >= self.materials.len()))
+        {
+            return Err(MeshError::MaterialIndex);
+        }
         if !self.colors.is_empty() && self.colors.len() != self.positions.len() {
             return Err(MeshError::ColorCount {
                 colors: self.colors.len(),
@@ -302,12 +352,16 @@ impl Mesh {
             let face = self.face(f);
             if polygon_area_vector(&self.positions, face).length_squared() > 0.0 {
                 kept.push_face(face);
+                if let Some(&m) = self.face_material.get(f) {
+                    kept.face_material.push(m);
+                }
             } else {
                 dropped += 1;
             }
         }
         self.corners = kept.corners;
         self.face_starts = kept.face_starts;
+        self.face_material = kept.face_material;
         self.name = kept.name;
         dropped
     }

@@ -13,7 +13,9 @@ pub use camera::{Camera, CameraFrame, Projection};
 pub use import::{
     detect, import, Format, ImportError, Imported, Location, MeshInfo, ParseError, MAX_FILE_BYTES,
 };
-pub use mesh::{polygon_area_vector, Corner, Fit, Mesh, MeshError, MAX_TRIANGLES, NO_NORMAL};
+pub use mesh::{
+    polygon_area_vector, Corner, FileMaterial, Fit, Mesh, MeshError, MAX_TRIANGLES, NO_NORMAL,
+};
 pub use normals::{compute_normals, Coincident, NormalWeighting};
 pub use shapes::{DetailControl, Shape};
 pub use subdivide::{subdivide, triangles_after, Subdivision, SubdivisionMethod, MAX_LEVELS};

@@ -199,6 +199,7 @@ pub fn subdivide(mesh: &Mesh, method: SubdivisionMethod, levels: u32) -> Result<
     // Original corners keep their positions and normals (both methods interpolate them).
     b.out.positions.extend_from_slice(&mesh.positions);
     b.out.colors.extend_from_slice(&mesh.colors);
+    b.out.materials.clone_from(&mesh.materials);
     b.out.normals.extend_from_slice(&mesh.normals);
     let normal_of = |c: Corner| {
         mesh.normals
@@ -233,12 +234,15 @@ pub fn subdivide(mesh: &Mesh, method: SubdivisionMethod, levels: u32) -> Result<
                 let start = j * (n + 1) - j * j.saturating_sub(1) / 2;
                 grid[(start + i) as usize]
             };
+            let material = mesh.face_material.get(f).copied();
             for j in 0..n {
                 for i in 0..n - j {
                     b.out.push_face(&[at(i, j), at(i + 1, j), at(i, j + 1)]);
+                    b.out.face_material.extend(material);
                     if i + j + 1 < n {
                         b.out
                             .push_face(&[at(i + 1, j), at(i + 1, j + 1), at(i, j + 1)]);
+                        b.out.face_material.extend(material);
                     }
                 }
             }

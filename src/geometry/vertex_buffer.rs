@@ -68,6 +68,10 @@ pub struct VertexBuffer {
     pub normals: Vec<Vec3>,
     /// Linear vertex colours, one per render vertex, or empty when the mesh has none.
     pub colors: Vec<Vec3>,
+    /// The file material of each render vertex, or empty when the mesh has none.
+    pub vertex_material: Vec<u32>,
+    /// The file material of each authored face, or empty when the mesh has none.
+    pub face_material: Vec<u32>,
     /// Triangles, counter-clockwise from the front.
     pub triangles: Vec<[u32; 3]>,
     /// The authored face each triangle came from.
@@ -96,13 +100,29 @@ impl VertexBuffer {
         };
         vb.polygon_vertices.reserve(mesh.corners.len());
         vb.triangles.reserve(mesh.triangle_count());
-        let mut index: HashMap<(u32, u32), u32> = HashMap::with_capacity(mesh.positions.len());
-        for c in &mesh.corners {
+        // A render vertex per (position, normal, material): faces of different materials
+        // light their shared corners each with their own.
+        let mut index: HashMap<(u32, u32, u32), u32> = HashMap::with_capacity(mesh.positions.len());
+        vb.face_material.clone_from(&mesh.face_material);
+        let material_of_corner = |ci: usize| -> Option<u32> {
+            if mesh.face_material.is_empty() {
+                return None;
+            }
+            // The face holding corner `ci` (face_starts is sorted).
+            let f = mesh.face_starts.partition_point(|&s| s as usize <= ci) - 1;
+            mesh.face_material.get(f).copied()
+        };
+        for (ci, c) in mesh.corners.iter().enumerate() {
             let next = vb.positions.len() as u32;
-            let v = *index.entry((c.position, c.normal)).or_insert_with(|| {
+            let material = material_of_corner(ci);
+            let key = (c.position, c.normal, material.unwrap_or(0));
+            let v = *index.entry(key).or_insert_with(|| {
                 vb.positions.push(mesh.positions[c.position as usize]);
                 if let Some(colour) = mesh.colors.get(c.position as usize) {
                     vb.colors.push(*colour);
+                }
+                if let Some(m) = material {
+                    vb.vertex_material.push(m);
                 }
                 let n = mesh
                     .normals
@@ -153,6 +173,9 @@ impl VertexBuffer {
                     vb.positions.push(pos / n as f32);
                     if !vb.colors.is_empty() {
                         vb.colors.push(col / n as f32);
+                    }
+                    if let Some(&m) = vb.face_material.get(f) {
+                        vb.vertex_material.push(m);
                     }
                     vb.normals.push(nrm.try_normalize().unwrap_or(Vec3::Z));
                     for i in 0..n {

@@ -16,7 +16,7 @@
 //! allocates nothing once sizes are stable.
 
 use crate::geometry::camera::CameraFrame;
-use crate::geometry::mesh::Mesh;
+use crate::geometry::mesh::{FileMaterial, Mesh};
 use crate::geometry::normals::{compute_normals, Coincident};
 use crate::geometry::shapes::Shape;
 use crate::geometry::vertex_buffer::MAX_CORNERS;
@@ -33,9 +33,11 @@ use crate::pipeline::shaders::{
 use crate::pipeline::surface::{surface_points, Probe, SurfacePoint};
 use crate::pipeline::vertex_stage::{project, StageKey, VertexStage};
 use crate::scene::definition::{Scene, ValidScene};
-use crate::scene::settings::{GltfNormals, MeshSource, NormalSettings, NormalSource, ShadingMode};
-use crate::shading::color::{srgb_to_linear, SrgbEncoder};
-use crate::shading::lighting::Lighting;
+use crate::scene::settings::{
+    GltfNormals, MaterialSource, MeshSource, NormalSettings, NormalSource, ShadingMode,
+};
+use crate::shading::color::{encode_srgb8, srgb_to_linear, Rgb, SrgbEncoder};
+use crate::shading::lighting::{Lighting, Material, ReflectionModel};
 use glam::{Mat3, Quat, Vec3, Vec4};
 use serde::Serialize;
 
@@ -100,6 +102,10 @@ pub struct Renderer {
     stage: VertexStage,
     vertex_color: Vec<Vec3>,
     face_color: Vec<u32>,
+    /// This frame's lighting of each file material (empty: the scene's material everywhere).
+    lightings: Vec<Lighting>,
+    /// Whether each file material is double-sided (drawn without back-face culling).
+    double_sided: Vec<bool>,
 }
 
 impl Renderer {
@@ -225,6 +231,29 @@ impl Renderer {
             scene.model,
             &camera,
         );
+        self.lightings.clear();
+        self.double_sided.clear();
+        let file_materials = match (&self.geometry, &self.imported) {
+            (Some(g), Some(m))
+                if scene.material_source == MaterialSource::File
+                    && !g.vb.face_material.is_empty()
+                    && matches!(scene.mesh, MeshSource::File { .. }) =>
+            {
+                m.materials.as_slice()
+            }
+            _ => &[],
+        };
+        for fm in file_materials {
+            let material = file_material(fm, &scene.material);
+            self.lightings.push(Lighting::new(
+                &scene.lights,
+                scene.ambient_light,
+                &material,
+                ReflectionModel::MetallicRoughness,
+                &camera,
+            ));
+            self.double_sided.push(fm.double_sided);
+        }
         Ok(Frame {
             camera,
             rotation,
@@ -244,16 +273,30 @@ impl Renderer {
     fn light_vertices(&mut self, lighting: &Lighting) {
         self.vertex_color.clear();
         let (n, p) = (self.stage.world_nrm(), self.stage.world_pos());
-        match self.geometry.as_ref().map(|g| &g.vb.colors) {
-            Some(tints) if !tints.is_empty() => self.vertex_color.extend(
+        let Some(vb) = self.geometry.as_ref().map(|g| &g.vb) else {
+            return;
+        };
+        // Each render vertex with its file material's lighting, or the scene's.
+        let lightings = &self.lightings;
+        let of = |i: usize| match vb.vertex_material.get(i) {
+            Some(&m) if !lightings.is_empty() => &lightings[m as usize],
+            _ => lighting,
+        };
+        if vb.colors.is_empty() {
+            self.vertex_color.extend(
                 n.iter()
                     .zip(p)
-                    .zip(tints)
-                    .map(|((n, p), t)| lighting.shade_tinted(*n, *p, *t)),
-            ),
-            _ => self
-                .vertex_color
-                .extend(n.iter().zip(p).map(|(n, p)| lighting.shade(*n, *p))),
+                    .enumerate()
+                    .map(|(i, (n, p))| of(i).shade(*n, *p)),
+            );
+        } else {
+            self.vertex_color.extend(
+                n.iter()
+                    .zip(p)
+                    .zip(&vb.colors)
+                    .enumerate()
+                    .map(|(i, ((n, p), t))| of(i).shade_tinted(*n, *p, *t)),
+            );
         }
     }
 
@@ -275,7 +318,9 @@ impl Renderer {
         let Some(geo) = self.geometry.as_ref() else {
             return Err(PrepareError::NotPrepared);
         };
-        let ctx = DrawContext::new(&geo.vb, &self.stage, (f.width, f.height), f.cull);
+        let ctx = DrawContext::new(&geo.vb, &self.stage, (f.width, f.height), f.cull)
+            .with_materials(&self.double_sided);
+        let pick = picker(&geo.vb, &self.lightings, &f.lighting);
         let (color2, _) = phong.planes_mut();
         let (color, depth) = gouraud.planes_mut();
         let mut target = Target {
@@ -292,12 +337,7 @@ impl Renderer {
         );
         let tints = &geo.vb.colors;
         let fragments = if tints.is_empty() {
-            let shader = Both {
-                phong: PerPixel {
-                    lighting: &f.lighting,
-                    enc: SrgbEncoder::new(),
-                },
-            };
+            let enc = SrgbEncoder::new();
             ctx.draw(
                 &mut target,
                 f.persp,
@@ -305,15 +345,15 @@ impl Renderer {
                     let (c, n, p) = (c[v as usize], n[v as usize], p[v as usize]);
                     [c.x, c.y, c.z, n.x, n.y, n.z, p.x, p.y, p.z]
                 },
-                |_| shader,
+                |face| Both {
+                    phong: PerPixel {
+                        lighting: pick(face),
+                        enc,
+                    },
+                },
             )
         } else {
-            let shader = BothTinted {
-                phong: PerPixelTinted {
-                    lighting: &f.lighting,
-                    enc: SrgbEncoder::new(),
-                },
-            };
+            let enc = SrgbEncoder::new();
             ctx.draw(
                 &mut target,
                 f.persp,
@@ -322,7 +362,12 @@ impl Renderer {
                     let (c, n, p, t) = (c[i], n[i], p[i], tints[i]);
                     [c.x, c.y, c.z, n.x, n.y, n.z, p.x, p.y, p.z, t.x, t.y, t.z]
                 },
-                |_| shader,
+                |face| BothTinted {
+                    phong: PerPixelTinted {
+                        lighting: pick(face),
+                        enc,
+                    },
+                },
             )
         };
         phong.copy_depth_from(gouraud);
@@ -372,7 +417,9 @@ impl Renderer {
             triangles: geo.vb.triangle_count() as u64,
             ..Default::default()
         };
-        let ctx = DrawContext::new(&geo.vb, &self.stage, (width, height), cull);
+        let ctx = DrawContext::new(&geo.vb, &self.stage, (width, height), cull)
+            .with_materials(&self.double_sided);
+        let pick = picker(&geo.vb, &self.lightings, &lighting);
         let (color, depth) = fb.planes_mut();
         let mut target = Target {
             color,
@@ -406,6 +453,7 @@ impl Renderer {
                         c += world[v as usize];
                     }
                     let centre = c / poly.len() as f32;
+                    let lighting = pick(f);
                     let col = if vb.colors.is_empty() {
                         lighting.shade(n.normalize_or_zero(), centre)
                     } else {
@@ -439,10 +487,6 @@ impl Renderer {
                     self.stage.world_pos(),
                     &geo.vb.colors,
                 );
-                let shader = PerPixelTinted {
-                    lighting: &lighting,
-                    enc,
-                };
                 ctx.draw(
                     &mut target,
                     persp,
@@ -451,15 +495,14 @@ impl Renderer {
                         let (n, p, t) = (n[i], p[i], t[i]);
                         [n.x, n.y, n.z, p.x, p.y, p.z, t.x, t.y, t.z]
                     },
-                    |_| shader,
+                    |face| PerPixelTinted {
+                        lighting: pick(face),
+                        enc,
+                    },
                 )
             }
             ShadingMode::PerPixel => {
                 let (n, p) = (self.stage.world_nrm(), self.stage.world_pos());
-                let shader = PerPixel {
-                    lighting: &lighting,
-                    enc,
-                };
                 ctx.draw(
                     &mut target,
                     persp,
@@ -467,7 +510,10 @@ impl Renderer {
                         let (n, p) = (n[v as usize], p[v as usize]);
                         [n.x, n.y, n.z, p.x, p.y, p.z]
                     },
-                    |_| shader,
+                    |face| PerPixel {
+                        lighting: pick(face),
+                        enc,
+                    },
                 )
             }
             ShadingMode::Exact => {
@@ -559,6 +605,8 @@ struct DrawContext<'a> {
     fixed: &'a [[i64; 2]],
     size: (f32, f32),
     cull: Cull,
+    /// Per file material: double-sided (never culled). Empty without file materials.
+    double_sided: &'a [bool],
 }
 
 impl<'a> DrawContext<'a> {
@@ -573,7 +621,29 @@ impl<'a> DrawContext<'a> {
             fixed: stage.fixed(),
             size: (size.0 as f32, size.1 as f32),
             cull,
+            double_sided: &[],
         }
+    }
+
+    /// The same context with the file materials' sidedness (see [`FileMaterial`]).
+    fn with_materials(mut self, double_sided: &'a [bool]) -> Self {
+        self.double_sided = double_sided;
+        self
+    }
+
+    /// The culling of authored face `face`: none for a double-sided material's faces.
+    #[inline(always)]
+    fn cull_for(&self, face: usize) -> Cull {
+        match self.vb.face_material.get(face) {
+            Some(&m) if self.double_sided.get(m as usize) == Some(&true) => Cull::None,
+            _ => self.cull,
+        }
+    }
+
+    /// The file material of authored face `face` (0 without file materials).
+    #[inline(always)]
+    fn material_of(&self, face: usize) -> u32 {
+        self.vb.face_material.get(face).copied().unwrap_or(0)
     }
 
     /// Draws every triangle and scanline polygon with varyings from `varying(vertex)` and the
@@ -602,15 +672,40 @@ impl<'a> DrawContext<'a> {
         let mut batch = Batch::default();
         let mut last_shader = None;
         let vb = self.vb;
+        // Fragments waiting in the batch are shaded by their own face's shader: when the
+        // material changes, the batch is emptied with the previous one first.
+        let mut last_material = 0;
         for (tri, &face) in vb.triangles.iter().zip(&vb.triangle_face) {
-            let shader = shader_for(face as usize);
-            shaded +=
-                u64::from(self.triangle::<N, PERSP, S>(target, *tri, varying, &shader, &mut batch));
+            let face = face as usize;
+            let material = self.material_of(face);
+            if material != last_material {
+                if let Some(previous) = &last_shader {
+                    batch.flush(target, previous);
+                }
+                last_material = material;
+            }
+            let shader = shader_for(face);
+            shaded += u64::from(self.triangle::<N, PERSP, S>(
+                target,
+                *tri,
+                varying,
+                &shader,
+                &mut batch,
+                self.cull_for(face),
+            ));
             last_shader = Some(shader);
         }
         let mut rv = [RasterVertex::ZERO; MAX_CORNERS];
         for &face in &vb.scanline_faces {
             let poly = vb.polygon(face as usize);
+            let material = self.material_of(face as usize);
+            if material != last_material {
+                if let Some(previous) = &last_shader {
+                    batch.flush(target, previous);
+                }
+                last_material = material;
+            }
+            let cull = self.cull_for(face as usize);
             let shader = shader_for(face as usize);
             if poly.iter().all(|&v| self.outcodes[v as usize] == 0) {
                 for (out, &v) in rv.iter_mut().zip(poly) {
@@ -619,7 +714,7 @@ impl<'a> DrawContext<'a> {
                 shaded += u64::from(fill_polygon::<N, PERSP, S>(
                     target,
                     &rv[..poly.len()],
-                    self.cull,
+                    cull,
                     &shader,
                     &mut batch,
                 ));
@@ -627,9 +722,10 @@ impl<'a> DrawContext<'a> {
                 // Crossing a clip plane: drawn as authored (a fan), clipped per triangle.
                 for i in 1..poly.len() - 1 {
                     let tri = [poly[0], poly[i], poly[i + 1]];
-                    shaded += u64::from(
-                        self.triangle::<N, PERSP, S>(target, tri, varying, &shader, &mut batch),
-                    );
+                    shaded +=
+                        u64::from(self.triangle::<N, PERSP, S>(
+                            target, tri, varying, &shader, &mut batch, cull,
+                        ));
                 }
             }
             last_shader = Some(shader);
@@ -672,6 +768,7 @@ impl<'a> DrawContext<'a> {
         varying: &impl Fn(u32) -> [f32; N],
         shader: &S,
         batch: &mut Batch<N>,
+        cull: Cull,
     ) -> u32 {
         let codes = tri.map(|v| self.outcodes[v as usize]);
         if codes[0] & codes[1] & codes[2] != 0 {
@@ -681,7 +778,7 @@ impl<'a> DrawContext<'a> {
             // Coverage first: culled or pixel-less triangles never fetch varyings.
             let Some(cov) = Coverage::new(
                 tri.map(|v| self.fixed[v as usize]),
-                self.cull,
+                cull,
                 target.width,
                 target.height,
             ) else {
@@ -719,7 +816,7 @@ impl<'a> DrawContext<'a> {
         for i in 1..poly.len - 1 {
             let tri = [&rv[0], &rv[i], &rv[i + 1]];
             let p = tri.map(|v| snap_xy(v.x, v.y));
-            if let Some(cov) = Coverage::new(p, self.cull, target.width, target.height) {
+            if let Some(cov) = Coverage::new(p, cull, target.width, target.height) {
                 shaded += fill::<N, PERSP, S>(target, &cov, tri, shader, batch);
             }
         }
@@ -736,4 +833,31 @@ struct Frame {
     height: usize,
     cull: Cull,
     persp: bool,
+}
+
+/// A file's material as the scene's material type: the file's base colour, metallic,
+/// roughness and emission (colours rounded to the nearest 8-bit sRGB code, as the page's own
+/// colours are), with the scene's ambient reflectance.
+fn file_material(fm: &FileMaterial, scene: &Material) -> Material {
+    let srgb = |c: Vec3| Rgb(c.to_array().map(|v| encode_srgb8(v.clamp(0.0, 1.0))));
+    Material {
+        base_color: srgb(fm.base_color),
+        metallic: fm.metallic.clamp(0.0, 1.0),
+        roughness: fm.roughness.clamp(0.0, 1.0),
+        emissive: srgb(fm.emissive),
+        emissive_strength: 1.0,
+        ..scene.clone()
+    }
+}
+
+/// The lighting of each authored face: its file material's, or `scene`'s.
+fn picker<'a>(
+    vb: &'a VertexBuffer,
+    lightings: &'a [Lighting],
+    scene: &'a Lighting,
+) -> impl Fn(usize) -> &'a Lighting + Copy + 'a {
+    move |face| match vb.face_material.get(face) {
+        Some(&m) if !lightings.is_empty() => &lightings[m as usize],
+        _ => scene,
+    }
 }

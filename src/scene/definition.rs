@@ -11,7 +11,8 @@ use crate::geometry::subdivide::{Subdivision, MAX_LEVELS};
 use crate::geometry::vertex_buffer::PolygonMode;
 use crate::scene::formats::{self, RENDERER_REVISION};
 use crate::scene::settings::{
-    DifferenceSettings, MeshSource, NormalSettings, PanelSize, ShadingMode, MAX_PANEL_SIDE,
+    DifferenceSettings, MaterialSource, MeshSource, NormalSettings, PanelSize, ShadingMode,
+    MAX_PANEL_SIDE,
 };
 use crate::shading::color::Rgb;
 use crate::shading::lighting::{Light, LightKind, Material, ReflectionModel, MAX_LIGHTS};
@@ -50,6 +51,8 @@ pub struct Scene {
     pub ambient_light: Rgb,
     /// The surface.
     pub material: Material,
+    /// A mesh file's own materials (`file`, where it has any) or this scene's (`scene`).
+    pub material_source: MaterialSource,
     /// Vertex colours of a mesh file (glTF `COLOR_0`, PLY `red green blue`, OBJ
     /// `v x y z r g b`) multiply the base colour; false ignores them.
     pub vertex_colors: bool,
@@ -104,6 +107,7 @@ impl Default for Scene {
             ],
             ambient_light: Rgb::hex("#ffffff"),
             material: Material::default(),
+            material_source: MaterialSource::File,
             vertex_colors: true,
             model: ReflectionModel::BlinnPhong,
             cull_back_faces: true,
@@ -410,6 +414,7 @@ impl Scene {
             lights,
             ambient_light,
             material,
+            material_source,
             vertex_colors,
             model,
             cull_back_faces,
@@ -430,6 +435,7 @@ impl Scene {
             && *ambient_light == other.ambient_light
             && *material == other.material
             && *vertex_colors == other.vertex_colors
+            && *material_source == other.material_source
             && *model == other.model
             && *cull_back_faces == other.cull_back_faces
             && *perspective_correct == other.perspective_correct

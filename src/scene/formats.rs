@@ -124,10 +124,11 @@ const FORMAT_1: &str = r##"{
 
 /// Fields that format 1 did not have, with the values that reproduce what format-1 builds
 /// did: normals computed with each position index its own vertex, glTF files without normals
-/// smoothed, vertex colours ignored, and a metallic-roughness material that only the (then
+/// smoothed, vertex colours and file materials ignored, and a metallic-roughness material that only the (then
 /// absent) model reads.
 const FORMAT_1_LATER_FIELDS: &str = r##"{
     "vertex_colors": false,
+    "material_source": "scene",
     "normals": {
         "coincident": "separate",
         "gltf_without_normals": "smooth"
@@ -139,7 +140,7 @@ const FORMAT_1_LATER_FIELDS: &str = r##"{
 }"##;
 
 /// Format 2: the glTF metallic-roughness model (material `roughness`, `metallic`; model
-/// `metallic_roughness`); vertex colours of mesh files are used; computed normals join
+/// `metallic_roughness`); vertex colours and materials of mesh files are used; computed normals join
 /// corners at the same position; glTF files without normals are shaded flat, as the glTF
 /// specification requires. Every format-1 default is unchanged.
 const FORMAT_2: &str = r##"{
@@ -213,6 +214,7 @@ const FORMAT_2: &str = r##"{
         "metallic": 0.0
     },
     "vertex_colors": true,
+    "material_source": "file",
     "model": "blinn_phong",
     "cull_back_faces": true,
     "perspective_correct": true,

@@ -15,6 +15,6 @@ pub use link::{decode, encode, LinkError};
 pub use presets::{preset, presets, Preset};
 pub use schema::{scene_schema, scene_schema_text};
 pub use settings::{
-    DifferenceSettings, GltfNormals, MeshSource, NormalSettings, NormalSource, PanelSize,
-    ShadingMode, MAX_PANEL_SIDE,
+    DifferenceSettings, GltfNormals, MaterialSource, MeshSource, NormalSettings, NormalSource,
+    PanelSize, ShadingMode, MAX_PANEL_SIDE,
 };

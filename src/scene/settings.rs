@@ -25,6 +25,18 @@ pub enum MeshSource {
     },
 }
 
+/// Whose material a mesh file is lit with.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default, JsonSchema)]
+#[serde(rename_all = "lowercase")]
+pub enum MaterialSource {
+    /// The file's own materials where it has any (glTF), one per primitive; the scene's
+    /// material otherwise.
+    #[default]
+    File,
+    /// The scene's material for every face.
+    Scene,
+}
+
 /// Use the mesh's own normals or compute them.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize, Default, JsonSchema)]
 #[serde(rename_all = "lowercase")]

@@ -73,6 +73,7 @@ export function syncControls() {
   $("normal-weighting").value = s.normals.weighting;
   $("coincident").value = s.normals.coincident;
   $("vertex-colors").checked = s.vertex_colors;
+  $("material-source").value = s.material_source;
   $("gltf-normals").value = s.normals.gltf_without_normals;
   $("crease").value = s.normals.crease_deg;
   $("crease-out").textContent = s.normals.crease_deg >= 180 ? "smooth" : `${Math.round(s.normals.crease_deg)}°`;
@@ -148,6 +149,7 @@ export function bindControls() {
   });
   on("roughness", "input", (s) => { s.material.roughness = +$("roughness").value; });
   on("metallic", "input", (s) => { s.material.metallic = +$("metallic").value; });
+  on("material-source", "change", (s) => { s.material_source = $("material-source").value; });
   on("vertex-colors", "change", (s) => { s.vertex_colors = $("vertex-colors").checked; });
   on("coincident", "change", (s) => { s.normals.coincident = $("coincident").value; });
   on("gltf-normals", "change", (s) => { s.normals.gltf_without_normals = $("gltf-normals").value; });

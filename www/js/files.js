@@ -14,7 +14,8 @@ export function loadMeshBytes(name, bytes) {
       `${info.name}: ${fmt(info.vertices)} vertices, ${fmt(info.faces)} faces, ` +
       `${fmt(info.triangles)} triangles, ${fmt(info.dropped_faces)} degenerate faces dropped; ` +
       `normals ${info.authored_normals ? "in the file" : "not in the file (computed)"}; ` +
-      `${info.vertex_colors ? "vertex colours in the file" : "no vertex colours"}.`;
+      `${info.vertex_colors ? "vertex colours in the file" : "no vertex colours"}; ` +
+      `${info.materials ? `${fmt(info.materials)} material${info.materials > 1 ? "s" : ""} in the file` : "no materials in the file"}.`;
     leavePreset();
     syncControls();
     requestRender();

@@ -1,10 +1,12 @@
 //! glTF 2.0 through the `gltf` crate: `.gltf` with embedded (data URI) buffers and binary
 //! `.glb`; every triangle-mode primitive of every mesh reached from the scene's nodes, with
-//! node transforms applied. Positions, normals and indices are checked against their buffers
-//! and the vertex count before use.
+//! node transforms applied. Positions, normals, vertex colours (`COLOR_0`) and indices are
+//! checked against their buffers and the vertex count before use; each primitive keeps its
+//! material's factors (base colour, metallic, roughness, emissive, double-sided; textures are
+//! not read).
 
 use super::ParseError;
-use crate::geometry::mesh::{Corner, Mesh, MAX_TRIANGLES};
+use crate::geometry::mesh::{Corner, FileMaterial, Mesh, MAX_TRIANGLES};
 use base64::engine::general_purpose::STANDARD;
 use base64::Engine;
 use glam::{Mat3, Mat4, Vec3};
@@ -81,6 +83,8 @@ pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
     let mut mesh = Mesh::new("");
     mesh.flat_if_no_normals = true;
     let mut any_colors = false;
+    let mut default_material = false;
+    let mut face_material: Vec<u32> = Vec::new();
     let mut triangles = 0usize;
     let mut add = |node: &gltf::Node, world: Mat4| -> Result<(), ParseError> {
         let Some(m) = node.mesh() else {
@@ -150,6 +154,14 @@ pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
                     )));
                 }
             }
+            // The primitive's material (the glTF default material when it names none).
+            let material_index = match prim.material().index() {
+                Some(i) => i as u32,
+                None => {
+                    default_material = true;
+                    u32::MAX
+                }
+            };
             let reader = prim.reader(|b| buffers.get(b.index()).map(Vec::as_slice));
             let Some(positions) = reader.read_positions() else {
                 return Err(ParseError::file(format!(
@@ -243,6 +255,7 @@ pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
                     },
                 });
                 mesh.push_face(&corners);
+                face_material.push(material_index);
             }
         }
         Ok(())
@@ -305,6 +318,51 @@ pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
     }
     if !any_colors {
         mesh.colors.clear();
+    }
+    // Materials: every material of the file in its order, then the glTF default material
+    // for primitives that name none. A file without any material keeps none (the viewer's
+    // own material is used).
+    let defined = gltf.document.materials().len();
+    if defined > 0 {
+        mesh.materials = gltf
+            .document
+            .materials()
+            .map(|m| {
+                let pbr = m.pbr_metallic_roughness();
+                let [r, g, b, _alpha] = pbr.base_color_factor();
+                FileMaterial {
+                    name: m.name().map_or_else(
+                        || format!("material {}", m.index().unwrap_or(0)),
+                        str::to_string,
+                    ),
+                    base_color: Vec3::new(r, g, b),
+                    metallic: pbr.metallic_factor(),
+                    roughness: pbr.roughness_factor(),
+                    emissive: Vec3::from(m.emissive_factor()),
+                    double_sided: m.double_sided(),
+                }
+            })
+            .collect();
+        if default_material {
+            mesh.materials.push(FileMaterial {
+                name: "glTF default material".into(),
+                ..FileMaterial::default()
+            });
+        }
+        let fallback = defined as u32;
+        mesh.face_material = face_material
+            .into_iter()
+            .map(|m| if m == u32::MAX { fallback } else { m })
+            .collect();
+        let bad = mesh.materials.iter().any(|m| {
+            !(m.base_color.is_finite()
+                && m.emissive.is_finite()
+                && m.metallic.is_finite()
+                && m.roughness.is_finite())
+        });
+        if bad {
+            return Err(ParseError::file("a material has a NaN or infinite factor"));
+        }
     }
     Ok(mesh)
 }
