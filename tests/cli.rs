@@ -537,3 +537,57 @@ fn links_render_on_the_command_line_as_the_page_shows_them() {
     );
     assert!(!std::path::Path::new("/tmp/never.csv").exists());
 }
+
+#[test]
+fn material_options_change_the_scene_as_the_page_would() {
+    let dir = temp_dir("material");
+    let out = twinshade(&[
+        "render",
+        "--size",
+        "160x120",
+        "--model",
+        "metallic-roughness",
+        "--roughness",
+        "0.3",
+        "--metallic",
+        "1",
+        "--out-dir",
+        dir.to_str().expect("utf-8"),
+    ]);
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let mut scene = Scene::default();
+    scene.panel.width = 160;
+    scene.panel.height = 120;
+    scene.model = twinshade::shading::ReflectionModel::MetallicRoughness;
+    scene.material.roughness = 0.3;
+    scene.material.metallic = 1.0;
+    let mut fb = Framebuffer::new(0, 0);
+    Renderer::new()
+        .render(
+            &scene.checked().expect("valid"),
+            ShadingMode::PerPixel,
+            &mut fb,
+        )
+        .expect("renders");
+    let (_, _, bytes) = read_png(&dir.join("phong.png")).expect("readable PNG");
+    assert!(
+        bytes == fb.bytes(),
+        "the per-pixel panel differs from the library's"
+    );
+    // Out of range: refused with the field's name, exit status 1 and no panic.
+    let out = twinshade(&[
+        "render",
+        "--roughness",
+        "2",
+        "--out-dir",
+        dir.to_str().expect("utf-8"),
+    ]);
+    assert!(!out.status.success());
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("roughness"), "{err}");
+    let _ = std::fs::remove_dir_all(&dir);
+}

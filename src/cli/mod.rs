@@ -164,19 +164,83 @@ struct SceneArgs {
     /// Panel size, WIDTHxHEIGHT (overrides the scene's).
     #[arg(long, value_parser = parse_size)]
     size: Option<(u32, u32)>,
+    /// Reflection model (overrides the scene's).
+    #[arg(long, value_enum)]
+    model: Option<ModelArg>,
+    /// Roughness of the metallic-roughness model, 0 to 1 (overrides the scene's).
+    #[arg(long)]
+    roughness: Option<f32>,
+    /// Metalness of the metallic-roughness model, 0 to 1 (overrides the scene's).
+    #[arg(long)]
+    metallic: Option<f32>,
+    /// Whose material a mesh file is lit with: its own (glTF materials, the default) or the
+    /// scene's.
+    #[arg(long, value_enum)]
+    material: Option<MaterialArg>,
+    /// Ignore a mesh file's vertex colours.
+    #[arg(long)]
+    no_vertex_colors: bool,
+}
+
+#[derive(Clone, Copy, clap::ValueEnum)]
+enum ModelArg {
+    /// Phong (1975): reflection vector, shininess exponent.
+    Phong,
+    /// Blinn-Phong (1977): half vector, shininess exponent.
+    BlinnPhong,
+    /// glTF 2.0 metallic-roughness (GGX).
+    MetallicRoughness,
+}
+
+#[derive(Clone, Copy, clap::ValueEnum)]
+enum MaterialArg {
+    /// The mesh file's own materials where it has any.
+    File,
+    /// The scene's material.
+    Scene,
 }
 
 impl SceneArgs {
+    /// The material and vertex-colour options written over `scene`.
+    fn apply_material(&self, scene: &mut Scene) {
+        use twinshade::shading::ReflectionModel;
+        if let Some(m) = self.model {
+            scene.model = match m {
+                ModelArg::Phong => ReflectionModel::Phong,
+                ModelArg::BlinnPhong => ReflectionModel::BlinnPhong,
+                ModelArg::MetallicRoughness => ReflectionModel::MetallicRoughness,
+            };
+        }
+        if let Some(r) = self.roughness {
+            scene.material.roughness = r;
+        }
+        if let Some(m) = self.metallic {
+            scene.material.metallic = m;
+        }
+        if let Some(m) = self.material {
+            scene.material_source = match m {
+                MaterialArg::File => twinshade::scene::MaterialSource::File,
+                MaterialArg::Scene => twinshade::scene::MaterialSource::Scene,
+            };
+        }
+        if self.no_vertex_colors {
+            scene.vertex_colors = false;
+        }
+    }
+
     /// The scene with `--size` and `--mesh` applied, a workbench holding the mesh, and the
     /// mesh file's counts.
     fn load(
         self,
     ) -> Result<(ValidScene, Workbench, Option<twinshade::geometry::MeshInfo>), String> {
-        prepare(
-            pick_scene(self.scene, self.preset, self.from_link, self.size)?,
-            self.mesh.as_deref(),
+        let mut scene = pick_scene(
+            self.scene.clone(),
+            self.preset.clone(),
+            self.from_link.clone(),
             self.size,
-        )
+        )?;
+        self.apply_material(&mut scene);
+        prepare(scene, self.mesh.as_deref(), self.size)
     }
 }
 
