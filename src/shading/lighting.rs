@@ -436,6 +436,9 @@ impl Lighting {
     /// Outgoing linear radiance at world position `p` with unit normal `n`.
     #[inline]
     pub fn shade(&self, n: Vec3, p: Vec3) -> Vec3 {
+        if let Some(g) = &self.gltf {
+            return self.shade_microfacet(g, n, p);
+        }
         let v = if self.orthographic {
             self.toward_eye
         } else {
@@ -445,18 +448,6 @@ impl Lighting {
         for light in &self.lights[..self.count] {
             let (l, c) = light.incident(p);
             let ndl = n.dot(l);
-            if let Some(g) = &self.gltf {
-                if ndl > 0.0 {
-                    let h = (l + v).normalize_or_zero();
-                    let ndv = n.dot(v).abs();
-                    let fw = schlick_weight(v.dot(h).abs());
-                    let lobe = ggx_lobe(g.alpha2, n.dot(h), ndl, ndv);
-                    let diffuse = g.diffuse * (1.0 - fw);
-                    let specular = (g.f0 + g.one_minus_f0 * fw) * lobe;
-                    col += (diffuse + specular) * (c * ndl);
-                }
-                continue;
-            }
             if ndl > 0.0 {
                 let s = if self.blinn {
                     n.dot((l + v).normalize_or_zero())
@@ -478,6 +469,9 @@ impl Lighting {
     /// in each lane, so each lane's result is bit-identical to the scalar call.
     #[inline]
     pub fn shade4(&self, n: V4, p: V4) -> V4 {
+        if let Some(g) = &self.gltf {
+            return self.shade4_microfacet(g, n, p);
+        }
         let v = if self.orthographic {
             V4::splat(self.toward_eye)
         } else {
@@ -488,34 +482,6 @@ impl Lighting {
             let (l, c) = light.incident4(p);
             let ndl = n.dot(l);
             let lit = ndl.gt(0.0);
-            if let Some(g) = &self.gltf {
-                let h = (l + v).normalize_or_zero();
-                let ndv = n.dot(v).abs();
-                let fw = schlick_weight4(v.dot(h).abs());
-                let lobe = ggx_lobe4(g.alpha2, n.dot(h), ndl, ndv);
-                let one_minus_fw = F4::splat(1.0) - fw;
-                let term = |d: f32, f0: f32, omf0: f32, c: F4| {
-                    (one_minus_fw * d + (fw * omf0 + f0) * lobe) * (c * ndl)
-                };
-                col = V4 {
-                    x: F4::select(
-                        lit,
-                        col.x + term(g.diffuse.x, g.f0.x, g.one_minus_f0.x, c.x),
-                        col.x,
-                    ),
-                    y: F4::select(
-                        lit,
-                        col.y + term(g.diffuse.y, g.f0.y, g.one_minus_f0.y, c.y),
-                        col.y,
-                    ),
-                    z: F4::select(
-                        lit,
-                        col.z + term(g.diffuse.z, g.f0.z, g.one_minus_f0.z, c.z),
-                        col.z,
-                    ),
-                };
-                continue;
-            }
             let s = if self.blinn {
                 n.dot((l + v).normalize_or_zero())
             } else {
@@ -541,6 +507,73 @@ impl Lighting {
                 z: F4::select(
                     lit,
                     col.z + term(self.diffuse.z, self.specular.z, c.z),
+                    col.z,
+                ),
+            };
+        }
+        col
+    }
+
+    /// [`Lighting::shade`] of the glTF metallic-roughness model.
+    #[inline]
+    fn shade_microfacet(&self, g: &Microfacet, n: Vec3, p: Vec3) -> Vec3 {
+        let v = if self.orthographic {
+            self.toward_eye
+        } else {
+            (self.eye - p).normalize_or_zero()
+        };
+        let mut col = self.constant;
+        for light in &self.lights[..self.count] {
+            let (l, c) = light.incident(p);
+            let ndl = n.dot(l);
+            if ndl > 0.0 {
+                let h = (l + v).normalize_or_zero();
+                let ndv = n.dot(v).abs();
+                let fw = schlick_weight(v.dot(h).abs());
+                let lobe = ggx_lobe(g.alpha2, n.dot(h), ndl, ndv);
+                let diffuse = g.diffuse * (1.0 - fw);
+                let specular = (g.f0 + g.one_minus_f0 * fw) * lobe;
+                col += (diffuse + specular) * (c * ndl);
+            }
+        }
+        col
+    }
+
+    /// [`Lighting::shade4`] of the glTF metallic-roughness model.
+    #[inline]
+    fn shade4_microfacet(&self, g: &Microfacet, n: V4, p: V4) -> V4 {
+        let v = if self.orthographic {
+            V4::splat(self.toward_eye)
+        } else {
+            (V4::splat(self.eye) - p).normalize_or_zero()
+        };
+        let mut col = V4::splat(self.constant);
+        for light in &self.lights[..self.count] {
+            let (l, c) = light.incident4(p);
+            let ndl = n.dot(l);
+            let lit = ndl.gt(0.0);
+            let h = (l + v).normalize_or_zero();
+            let ndv = n.dot(v).abs();
+            let fw = schlick_weight4(v.dot(h).abs());
+            let lobe = ggx_lobe4(g.alpha2, n.dot(h), ndl, ndv);
+            let one_minus_fw = F4::splat(1.0) - fw;
+            let term = |d: f32, f0: f32, omf0: f32, c: F4| {
+                (one_minus_fw * d + (fw * omf0 + f0) * lobe) * (c * ndl)
+            };
+            col = V4 {
+                x: F4::select(
+                    lit,
+                    col.x + term(g.diffuse.x, g.f0.x, g.one_minus_f0.x, c.x),
+                    col.x,
+                ),
+                y: F4::select(
+                    lit,
+                    col.y + term(g.diffuse.y, g.f0.y, g.one_minus_f0.y, c.y),
+                    col.y,
+                ),
+                z: F4::select(
+                    lit,
+                    col.z + term(g.diffuse.z, g.f0.z, g.one_minus_f0.z, c.z),
                     col.z,
                 ),
             };
