@@ -584,6 +584,7 @@ impl Renderer {
         let probe = Probe {
             stage: &self.stage,
             lighting: &f.lighting,
+            lightings: &self.lightings,
             rotation: Mat3::from_quat(f.rotation),
             view_proj: f.camera.view_proj,
             size: (f.width, f.height),

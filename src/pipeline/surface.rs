@@ -60,6 +60,8 @@ pub(crate) struct Probe<'a> {
     pub stage: &'a VertexStage,
     /// The frame's lighting.
     pub lighting: &'a Lighting,
+    /// The frame's lighting of each file material (empty: `lighting` everywhere).
+    pub lightings: &'a [Lighting],
     /// Object-to-world rotation.
     pub rotation: Mat3,
     /// World-to-clip transform.
@@ -109,14 +111,26 @@ impl Probe<'_> {
             return None;
         }
         let st = self.stage;
-        let vertex = |v: u32| -> Option<RasterVertex<9>> {
+        // The face's material and, when the mesh has them, its vertex colours, as the panels
+        // use them.
+        let lighting = match vb.face_material.get(face) {
+            Some(&m) if !self.lightings.is_empty() => &self.lightings[m as usize],
+            _ => self.lighting,
+        };
+        let tinted = !vb.colors.is_empty();
+        let vertex = |v: u32| -> Option<RasterVertex<12>> {
             if st.outcodes()[v as usize] != 0 {
                 return None;
             }
             let (n, p) = (st.world_nrm()[v as usize], st.world_pos()[v as usize]);
-            let c = self.lighting.shade(n, p);
+            let t = vb.colors.get(v as usize).copied().unwrap_or(Vec3::ONE);
+            let c = if tinted {
+                lighting.shade_tinted(n, p, t)
+            } else {
+                lighting.shade(n, p)
+            };
             let s = st.screen()[v as usize];
-            let mut var = [c.x, c.y, c.z, n.x, n.y, n.z, p.x, p.y, p.z];
+            let mut var = [c.x, c.y, c.z, n.x, n.y, n.z, p.x, p.y, p.z, t.x, t.y, t.z];
             if self.persp {
                 for x in &mut var {
                     *x *= s[3];
@@ -131,7 +145,7 @@ impl Probe<'_> {
             })
         };
         // Doubled signed screen area, y down: negative = counter-clockwise = front facing.
-        let front = |rv: &[RasterVertex<9>]| {
+        let front = |rv: &[RasterVertex<12>]| {
             let n = rv.len();
             let area: f32 = (0..n)
                 .map(|i| {
@@ -174,7 +188,12 @@ impl Probe<'_> {
         }
         let gouraud = Vec3::new(var[0], var[1], var[2]);
         let n = Vec3::new(var[3], var[4], var[5]).normalize_or_zero();
-        let phong = self.lighting.shade(n, Vec3::new(var[6], var[7], var[8]));
+        let p = Vec3::new(var[6], var[7], var[8]);
+        let phong = if tinted {
+            lighting.shade_tinted(n, p, Vec3::new(var[9], var[10], var[11]))
+        } else {
+            lighting.shade(n, p)
+        };
         Some([linear_luminance(gouraud), linear_luminance(phong)])
     }
 }
