@@ -610,6 +610,51 @@ async fn page_end_to_end() {
         "mesh= loads the hosted file: {info}"
     );
 
+    // A glTF file with three materials and vertex colours (written with the gltf-json
+    // writer): the page draws it with the file's materials and colours, byte for byte as the
+    // native renderer does.
+    let hosted = common::crate_root().join("www/pkg/test-materials.gltf");
+    let file = common::fixtures::materials_gltf();
+    std::fs::write(&hosted, &file).expect("host the glTF");
+    c.goto(&format!("{url}?size=240x80&mesh=pkg/test-materials.gltf"))
+        .await
+        .expect("open with the glTF");
+    wait_ready(&c).await;
+    let _ = std::fs::remove_file(&hosted);
+    let info = eval(
+        &c,
+        "return document.getElementById('mesh-info').textContent",
+    )
+    .await;
+    assert!(
+        info.as_str()
+            .is_some_and(|t| t.contains("vertex colours in the file") && t.contains("3 materials")),
+        "glTF materials and colours announced: {info}"
+    );
+    {
+        let json = eval(&c, "return window.twinshade.sceneJson()").await;
+        let scene =
+            Scene::from_json(json.as_str().expect("scene JSON")).expect("page scene is valid");
+        let mut bench = Workbench::new();
+        bench.set_file_mesh(
+            twinshade::geometry::import("test-materials.gltf", &file)
+                .expect("imports")
+                .mesh,
+        );
+        bench.render(&scene).expect("native render");
+        for (name, panel) in [
+            ("per_vertex", Panel::PerVertex),
+            ("per_pixel", Panel::PerPixel),
+            ("difference", Panel::Difference),
+        ] {
+            let (_, _, page) = canvas(&c, name).await;
+            assert!(
+                page == bench.framebuffer(panel).bytes(),
+                "coloured glTF: the {name} panel differs from the native render"
+            );
+        }
+    }
+
     // A sweep: a roll sweep of the scanline-quad preset runs to completion in slices, its
     // series equal the native sweep's (same CSV, byte for byte), the plot appears, and
     // clicking a point of it shows that step's scene.

@@ -249,9 +249,17 @@ pub fn defaults(n: u32) -> Option<Value> {
     }
 }
 
-/// Writes `patch` over `base` (objects merged field by field, anything else replaced).
+/// Writes `patch` over `base` (objects merged field by field, anything else replaced). A
+/// one-key object over a one-key object with another key is a different variant of an enum
+/// (the mesh's `{"shape": ...}` against `{"file": ...}`) and replaces it whole.
 pub fn merge(base: &mut Value, patch: Value) {
+    let other_variant = |b: &serde_json::Map<String, Value>, p: &serde_json::Map<String, Value>| {
+        b.len() == 1 && p.len() == 1 && b.keys().next() != p.keys().next()
+    };
     match (base, patch) {
+        (Value::Object(b), Value::Object(p)) if other_variant(b, &p) => {
+            *b = p;
+        }
         (Value::Object(b), Value::Object(p)) => {
             for (k, v) in p {
                 match b.get_mut(k.as_str()) {

@@ -183,3 +183,162 @@ pub fn ply_files(mesh: &Mesh) -> (String, Vec<u8>, Vec<u8>) {
     }
     (ascii, le, be)
 }
+
+/// The squares' corners: x offset, counter-clockwise seen from +z.
+fn square(x: f32) -> [[f32; 3]; 4] {
+    [
+        [x - 0.9, -0.9, 0.0],
+        [x + 0.9, -0.9, 0.0],
+        [x + 0.9, 0.9, 0.0],
+        [x - 0.9, 0.9, 0.0],
+    ]
+}
+
+/// A glTF file written with a general-purpose glTF writer (the `gltf-json` crate 1.4.1): three
+/// squares side by side, a rough red dielectric, a glossy gold metal (double-sided), and a
+/// white material with red (left) and blue (right) vertex colours (`COLOR_0`).
+pub fn materials_gltf() -> Vec<u8> {
+    use base64::Engine;
+    use gltf_json as json;
+    use json::validation::Checked::Valid;
+    use json::validation::USize64;
+    let mut root = json::Root::default();
+    let mut bytes: Vec<u8> = Vec::new();
+    let accessor = |root: &mut json::Root,
+                    bytes: &mut Vec<u8>,
+                    data: &[u8],
+                    count: usize,
+                    type_: json::accessor::Type,
+                    component: json::accessor::ComponentType,
+                    bounds: Option<(Vec<f32>, Vec<f32>)>| {
+        while bytes.len() % 4 != 0 {
+            bytes.push(0);
+        }
+        let offset = bytes.len();
+        bytes.extend_from_slice(data);
+        let view = root.push(json::buffer::View {
+            buffer: json::Index::new(0),
+            byte_length: USize64::from(data.len()),
+            byte_offset: Some(USize64::from(offset)),
+            byte_stride: None,
+            name: None,
+            target: None,
+            extensions: None,
+            extras: Default::default(),
+        });
+        root.push(json::Accessor {
+            buffer_view: Some(view),
+            byte_offset: None,
+            count: USize64::from(count),
+            component_type: Valid(json::accessor::GenericComponentType(component)),
+            extensions: None,
+            extras: Default::default(),
+            type_: Valid(type_),
+            min: bounds.as_ref().map(|b| json::Value::from(b.0.clone())),
+            max: bounds.map(|b| json::Value::from(b.1)),
+            name: None,
+            normalized: false,
+            sparse: None,
+        })
+    };
+    let materials = [
+        ("rough red", [0.8, 0.05, 0.05, 1.0], 0.0, 0.9, false),
+        ("glossy gold", [1.0, 0.71, 0.29, 1.0], 1.0, 0.15, true),
+        ("white", [1.0, 1.0, 1.0, 1.0], 0.0, 0.5, false),
+    ];
+    let mut primitives = Vec::new();
+    for (k, (name, base, metallic, roughness, double_sided)) in materials.iter().enumerate() {
+        let material = root.push(json::Material {
+            name: Some(name.to_string()),
+            double_sided: *double_sided,
+            pbr_metallic_roughness: json::material::PbrMetallicRoughness {
+                base_color_factor: json::material::PbrBaseColorFactor(*base),
+                metallic_factor: json::material::StrengthFactor(*metallic),
+                roughness_factor: json::material::StrengthFactor(*roughness),
+                ..Default::default()
+            },
+            ..Default::default()
+        });
+        let corners = square(-2.2 + 2.2 * k as f32);
+        let flat: Vec<f32> = corners.iter().flatten().copied().collect();
+        let lo = (0..3)
+            .map(|c| corners.iter().map(|p| p[c]).fold(f32::MAX, f32::min))
+            .collect();
+        let hi = (0..3)
+            .map(|c| corners.iter().map(|p| p[c]).fold(f32::MIN, f32::max))
+            .collect();
+        let positions = accessor(
+            &mut root,
+            &mut bytes,
+            bytemuck::cast_slice(&flat),
+            4,
+            json::accessor::Type::Vec3,
+            json::accessor::ComponentType::F32,
+            Some((lo, hi)),
+        );
+        let indices: [u16; 6] = [0, 1, 2, 0, 2, 3];
+        let indices = accessor(
+            &mut root,
+            &mut bytes,
+            bytemuck::cast_slice(&indices),
+            6,
+            json::accessor::Type::Scalar,
+            json::accessor::ComponentType::U16,
+            None,
+        );
+        let mut attributes = std::collections::BTreeMap::new();
+        attributes.insert(Valid(json::mesh::Semantic::Positions), positions);
+        if k == 2 {
+            // Red on the left corners, blue on the right (linear, as glTF colours are).
+            let colours: [f32; 12] = [1., 0., 0., 0., 0., 1., 0., 0., 1., 1., 0., 0.];
+            let c = accessor(
+                &mut root,
+                &mut bytes,
+                bytemuck::cast_slice(&colours),
+                4,
+                json::accessor::Type::Vec3,
+                json::accessor::ComponentType::F32,
+                None,
+            );
+            attributes.insert(Valid(json::mesh::Semantic::Colors(0)), c);
+        }
+        primitives.push(json::mesh::Primitive {
+            attributes,
+            extensions: None,
+            extras: Default::default(),
+            indices: Some(indices),
+            material: Some(material),
+            mode: Valid(json::mesh::Mode::Triangles),
+            targets: None,
+        });
+    }
+    let mesh = root.push(json::Mesh {
+        extensions: None,
+        extras: Default::default(),
+        name: Some("three squares".into()),
+        primitives,
+        weights: None,
+    });
+    let node = root.push(json::Node {
+        mesh: Some(mesh),
+        ..Default::default()
+    });
+    let scene = root.push(json::Scene {
+        extensions: None,
+        extras: Default::default(),
+        name: None,
+        nodes: vec![node],
+    });
+    root.scene = Some(scene);
+    root.push(json::Buffer {
+        byte_length: USize64::from(bytes.len()),
+        name: None,
+        uri: Some(format!(
+            "data:application/octet-stream;base64,{}",
+            base64::engine::general_purpose::STANDARD.encode(&bytes)
+        )),
+        extensions: None,
+        extras: Default::default(),
+    });
+    json::serialize::to_vec(&root).expect("serialises")
+}
