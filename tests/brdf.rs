@@ -14,6 +14,7 @@ use twinshade::shading::{
     MIN_ROUGHNESS,
 };
 use twinshade::{Framebuffer, Renderer, Scene, ShadingMode};
+mod common;
 
 /// GGX D from the shader's lobe: with N.L = N.V = 1 the visibility is 0.5 / (1 + 1) = 1/4
 /// for every alpha, so pi D = 4 lobe.
@@ -142,25 +143,6 @@ fn roughness_and_blinn_exponent_convert_both_ways() {
 
 // ---- The per-pixel panel of a sphere against closed forms -------------------------------
 
-fn srgb_encode(l: f64) -> u8 {
-    let l = l.clamp(0.0, 1.0);
-    let e = if l <= 0.0031308 {
-        12.92 * l
-    } else {
-        1.055 * l.powf(1.0 / 2.4) - 0.055
-    };
-    (255.0 * e + 0.5).floor() as u8
-}
-
-fn srgb_decode(c: u8) -> f64 {
-    let v = f64::from(c) / 255.0;
-    if v <= 0.04045 {
-        v / 12.92
-    } else {
-        ((v + 0.055) / 1.055).powf(2.4)
-    }
-}
-
 const SIZE: u32 = 160;
 const HALF_HEIGHT: f64 = 1.1;
 
@@ -223,7 +205,7 @@ fn worst_code_difference(scene: &Scene, closed: impl Fn([f64; 3], [f64; 3]) -> [
                 continue;
             }
             let n = [px, py, (1.0 - r2).sqrt()];
-            let want = closed(n, light).map(srgb_encode);
+            let want = closed(n, light).map(common::srgb_encode_f64);
             let i = ((y * SIZE + x) * 4) as usize;
             for c in 0..3 {
                 worst = worst.max(bytes[i + c].abs_diff(want[c]));
@@ -240,7 +222,7 @@ fn dot(a: [f64; 3], b: [f64; 3]) -> f64 {
 }
 
 fn base_of(m: &Material) -> [f64; 3] {
-    m.base_color.0.map(srgb_decode)
+    m.base_color.0.map(common::srgb_decode_f64)
 }
 
 #[test]

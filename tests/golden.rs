@@ -179,24 +179,10 @@ mod closed_form {
         mul(a, 1.0 / dot(a, a).sqrt())
     }
     fn linear(c: Rgb) -> V {
-        let f = |v: u8| {
-            let v = f64::from(v) / 255.0;
-            if v <= 0.04045 {
-                v / 12.92
-            } else {
-                ((v + 0.055) / 1.055).powf(2.4)
-            }
-        };
-        [f(c.0[0]), f(c.0[1]), f(c.0[2])]
+        c.0.map(crate::common::srgb_decode_f64)
     }
     fn encode(l: f64) -> u8 {
-        let l = l.clamp(0.0, 1.0);
-        let e = if l <= 0.0031308 {
-            12.92 * l
-        } else {
-            1.055 * l.powf(1.0 / 2.4) - 0.055
-        };
-        (255.0 * e + 0.5).floor() as u8
+        crate::common::srgb_encode_f64(l)
     }
 
     /// The eye and the world-space ray through the centre of pixel (x, y) (OpenGL camera,

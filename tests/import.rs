@@ -394,16 +394,7 @@ fn vertex_colours_are_read_and_tint_both_panels() {
         scene.material.specular = 0.0;
         scene.camera.projection = twinshade::geometry::Projection::Orthographic;
         scene.cull_back_faces = false;
-        let render = |scene: &Scene| {
-            let mut r = Renderer::new();
-            r.set_file_mesh(m.mesh.clone());
-            [ShadingMode::PerVertex, ShadingMode::PerPixel].map(|mode| {
-                let mut fb = Framebuffer::new(0, 0);
-                r.render(&scene.checked().expect("valid"), mode, &mut fb)
-                    .expect("renders");
-                fb.bytes().to_vec()
-            })
-        };
+        let render = |scene: &Scene| common::render_file_mesh(&m.mesh, scene);
         let px = |img: &[u8], x: usize, y: usize| {
             let i = (y * 100 + x) * 4;
             [img[i], img[i + 1], img[i + 2]]

@@ -6,7 +6,7 @@
 use twinshade::geometry::{import, Projection};
 use twinshade::scene::{MaterialSource, MeshSource, PanelSize};
 use twinshade::shading::Rgb;
-use twinshade::{Framebuffer, Renderer, Scene, ShadingMode};
+use twinshade::Scene;
 mod common;
 use common::fixtures::materials_gltf;
 
@@ -42,16 +42,7 @@ fn a_gltf_files_materials_and_vertex_colours_are_read_and_drawn() {
     };
     scene.camera.projection = Projection::Orthographic;
     scene.camera.ortho_height = 0.8;
-    let render = |scene: &Scene| {
-        let mut r = Renderer::new();
-        r.set_file_mesh(m.mesh.clone());
-        [ShadingMode::PerVertex, ShadingMode::PerPixel].map(|mode| {
-            let mut fb = Framebuffer::new(0, 0);
-            r.render(&scene.checked().expect("valid"), mode, &mut fb)
-                .expect("renders");
-            fb.bytes().to_vec()
-        })
-    };
+    let render = |scene: &Scene| common::render_file_mesh(&m.mesh, scene);
     // Pixels in the middle of each square's left and right halves (the fit puts the three
     // squares across the panel).
     let px = |img: &[u8], x: usize| {
