@@ -117,6 +117,11 @@ async fn wait_ready(c: &Client) {
     }
 }
 
+/// The page's line about the loaded mesh file.
+async fn mesh_info(c: &Client) -> Value {
+    eval(c, "return document.getElementById('mesh-info').textContent").await
+}
+
 /// The RGBA bytes of a panel's canvas.
 async fn canvas(c: &Client, panel: &str) -> (u32, u32, Vec<u8>) {
     let v = c
@@ -546,11 +551,7 @@ async fn page_end_to_end() {
         .await
         .expect("pick a file");
     let with_mesh = wait_changed(&c, "per_pixel", &before_mesh, "picking a mesh file").await;
-    let info = eval(
-        &c,
-        "return document.getElementById('mesh-info').textContent",
-    )
-    .await;
+    let info = mesh_info(&c).await;
     assert!(
         info.as_str()
             .is_some_and(|t| t.contains("prism.obj: 4 vertices, 4 faces, 4 triangles")),
@@ -598,11 +599,7 @@ async fn page_end_to_end() {
         .await
         .expect("open with mesh=");
     wait_ready(&c).await;
-    let info = eval(
-        &c,
-        "return document.getElementById('mesh-info').textContent",
-    )
-    .await;
+    let info = mesh_info(&c).await;
     let _ = std::fs::remove_file(&hosted);
     assert!(
         info.as_str()
@@ -621,11 +618,7 @@ async fn page_end_to_end() {
         .expect("open with the glTF");
     wait_ready(&c).await;
     let _ = std::fs::remove_file(&hosted);
-    let info = eval(
-        &c,
-        "return document.getElementById('mesh-info').textContent",
-    )
-    .await;
+    let info = mesh_info(&c).await;
     assert!(
         info.as_str()
             .is_some_and(|t| t.contains("vertex colours in the file") && t.contains("3 materials")),

@@ -2,6 +2,7 @@
 //! Thuermer & Wuethrich 1998 and Max 1999).
 
 use glam::Vec3;
+mod common;
 use twinshade::geometry::Mesh;
 use twinshade::geometry::Shape;
 use twinshade::geometry::{compute_normals, Coincident, Corner, NormalWeighting, NO_NORMAL};
@@ -144,7 +145,7 @@ fn split_everywhere(mesh: &Mesh) -> Mesh {
 #[test]
 fn a_mesh_split_along_seams_shades_like_the_same_mesh_welded() {
     use twinshade::scene::{MeshSource, NormalSource, PanelSize};
-    use twinshade::{Framebuffer, Renderer, Scene, ShadingMode};
+    use twinshade::Scene;
     let mut welded = Shape::Torus {
         rings: 16,
         segments: 10,
@@ -170,14 +171,7 @@ fn a_mesh_split_along_seams_shades_like_the_same_mesh_welded() {
         scene.normals.source = NormalSource::Computed;
         scene.normals.coincident = coincident;
         scene.turn(30.0, 20.0);
-        let mut r = Renderer::new();
-        r.set_file_mesh(mesh.clone());
-        [ShadingMode::PerVertex, ShadingMode::PerPixel].map(|mode| {
-            let mut fb = Framebuffer::new(0, 0);
-            r.render(&scene.checked().expect("valid"), mode, &mut fb)
-                .expect("renders");
-            fb.bytes().to_vec()
-        })
+        common::render_file_mesh(mesh, &scene)
     };
     let reference = render(&welded, Coincident::Separate);
     // Joined: the split mesh renders exactly as the welded one, in both panels.
