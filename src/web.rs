@@ -15,7 +15,7 @@ use crate::geometry::shapes::{DetailControl, Shape};
 use crate::geometry::subdivide::{SubdivisionMethod, MAX_LEVELS};
 use crate::scene::definition::{Scene, ValidScene};
 use crate::scene::formats::{revision_notice, RENDERER_REVISION};
-use crate::scene::settings::{MeshSource, ShadingMode, MAX_PANEL_SIDE};
+use crate::scene::settings::{MaterialSource, MeshSource, ShadingMode, MAX_PANEL_SIDE};
 use crate::shading::lighting::{
     blinn_exponent_for_roughness, roughness_for_blinn_exponent, ReflectionModel, MIN_ROUGHNESS,
 };
@@ -261,14 +261,41 @@ impl Viewer {
         Ok(notice)
     }
 
-    /// Imports a mesh file (OBJ, STL, PLY, glTF or GLB) from its bytes and shows it. Returns its counts
-    /// `{name, format, vertices, faces, triangles, dropped_faces, authored_normals,
-    /// vertex_colors}`. On any
-    /// problem a JavaScript `Error` names the file, the place and the problem, and the
-    /// previous scene stays.
+    /// The files a mesh file refers to, as it names them (an OBJ's material libraries), so
+    /// the page can fetch them beside a hosted mesh.
+    #[wasm_bindgen(js_name = meshCompanions)]
+    pub fn mesh_companions(name: &str, bytes: &[u8]) -> Vec<String> {
+        crate::geometry::import::companions(name, bytes)
+    }
+
+    /// Imports a mesh file (OBJ, STL, PLY, glTF or GLB) from its bytes and shows it, with the
+    /// files given with it as `[[name, Uint8Array], ...]` (an OBJ's `.mtl`). Returns its
+    /// counts `{name, format, vertices, faces, triangles, dropped_faces, authored_normals,
+    /// vertex_colors, materials, notes}`. On any problem a JavaScript `Error` names the file,
+    /// the place and the problem, and the previous scene stays.
     #[wasm_bindgen(js_name = loadMesh)]
-    pub fn load_mesh(&mut self, name: &str, bytes: &[u8]) -> Result<JsValue, JsValue> {
-        let imported = crate::geometry::import::import(name, bytes).map_err(js_error)?;
+    pub fn load_mesh(
+        &mut self,
+        name: &str,
+        bytes: &[u8],
+        companions: Option<js_sys::Array>,
+    ) -> Result<JsValue, JsValue> {
+        let given: Vec<(String, Vec<u8>)> = companions
+            .iter()
+            .flat_map(|a| a.iter())
+            .map(|pair| {
+                let pair = js_sys::Array::from(&pair);
+                let name = pair.get(0).as_string().unwrap_or_default();
+                let bytes = js_sys::Uint8Array::new(&pair.get(1)).to_vec();
+                (name, bytes)
+            })
+            .collect();
+        let companions: Vec<crate::geometry::import::Companion> = given
+            .iter()
+            .map(|(name, bytes)| crate::geometry::import::Companion { name, bytes })
+            .collect();
+        let imported =
+            crate::geometry::import::import_with(name, bytes, &companions).map_err(js_error)?;
         let info = imported.info();
         self.bench.set_file_mesh(imported.mesh);
         self.mesh_name = Some(name.to_string());
@@ -282,6 +309,77 @@ impl Viewer {
         self.panels_fresh = false; // a new file may carry an old name
         let ser = serde_wasm_bindgen::Serializer::json_compatible();
         serde::Serialize::serialize(&info, &ser).map_err(js_error)
+    }
+
+    /// The loaded mesh file's materials as `[{name, model, base_color, metallic, roughness,
+    /// shininess, faces}]` (`model` is the reflection model id it is lit with, `"page"` for
+    /// faces without one); empty without a file or when the file has none.
+    #[wasm_bindgen(js_name = fileMaterials)]
+    pub fn file_materials(&self) -> Result<JsValue, JsValue> {
+        #[derive(serde::Serialize)]
+        struct Shown {
+            name: String,
+            model: &'static str,
+            base_color: String,
+            metallic: f32,
+            roughness: f32,
+            shininess: f32,
+            faces: usize,
+        }
+        let mesh = self.bench.file_mesh();
+        let list: Vec<Shown> = mesh
+            .map(|m| m.materials.as_slice())
+            .unwrap_or_default()
+            .iter()
+            .enumerate()
+            .map(|(k, fm)| {
+                let (mat, model) = crate::pipeline::render::file_material(
+                    fm,
+                    &self.scene.material,
+                    self.scene.model,
+                );
+                Shown {
+                    name: fm.name.clone(),
+                    model: match fm.reflectance {
+                        crate::geometry::mesh::Reflectance::Viewer => "page",
+                        _ => model.id(),
+                    },
+                    base_color: mat.base_color.to_string(),
+                    metallic: mat.metallic,
+                    roughness: mat.roughness,
+                    shininess: mat.shininess,
+                    faces: mesh.map_or(0, |m| {
+                        m.face_material.iter().filter(|&&f| f as usize == k).count()
+                    }),
+                }
+            })
+            .collect();
+        let ser = serde_wasm_bindgen::Serializer::json_compatible();
+        serde::Serialize::serialize(&list, &ser).map_err(js_error)
+    }
+
+    /// Edit a copy: the loaded file's material `index` becomes the page's own material (its
+    /// model, colours and terms; an OBJ highlight colour becomes its brightest component) and
+    /// the page's material is used from then on, so the Surface settings edit it.
+    #[wasm_bindgen(js_name = copyFileMaterial)]
+    pub fn copy_file_material(&mut self, index: usize) -> Result<(), JsValue> {
+        let fm = self
+            .bench
+            .file_mesh()
+            .and_then(|m| m.materials.get(index))
+            .ok_or_else(|| js_error(format!("the mesh file has no material {index}")))?;
+        let (material, model) =
+            crate::pipeline::render::file_material(fm, &self.scene.material, self.scene.model);
+        let next = self
+            .scene
+            .edit(|s| {
+                s.material = material;
+                s.model = model;
+                s.material_source = MaterialSource::Scene;
+            })
+            .map_err(js_error)?;
+        self.replace_scene(next);
+        Ok(())
     }
 
     /// The presets as `[{id, title, caption}]`.

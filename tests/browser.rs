@@ -648,6 +648,90 @@ async fn page_end_to_end() {
         }
     }
 
+    // An OBJ file hosted with its material library beside it: the page fetches the library
+    // the file names, draws the squares with its Blinn-Phong and metallic-roughness
+    // materials byte for byte as natively, and "Edit a copy" makes the plastic the page's own
+    // material, as the library function does.
+    let folder = common::crate_root().join("www/pkg/test-obj");
+    std::fs::create_dir_all(&folder).expect("host folder");
+    std::fs::write(folder.join("squares.obj"), common::fixtures::SQUARES_OBJ).expect("host OBJ");
+    std::fs::write(folder.join("squares.mtl"), common::fixtures::SQUARES_MTL).expect("host MTL");
+    c.goto(&format!("{url}?size=240x80&mesh=pkg/test-obj/squares.obj"))
+        .await
+        .expect("open with the OBJ");
+    wait_ready(&c).await;
+    let info = mesh_info(&c).await;
+    let _ = std::fs::remove_dir_all(&folder);
+    assert!(
+        info.as_str()
+            .is_some_and(|t| t.contains("2 materials in the file")
+                && t.contains("'missing'")
+                && t.contains("1 texture map")),
+        "OBJ materials and notes announced: {info}"
+    );
+    {
+        let imported = twinshade::geometry::import_with(
+            "squares.obj",
+            common::fixtures::SQUARES_OBJ.as_bytes(),
+            &[twinshade::geometry::Companion {
+                name: "squares.mtl",
+                bytes: common::fixtures::SQUARES_MTL.as_bytes(),
+            }],
+        )
+        .expect("imports");
+        let json = eval(&c, "return window.twinshade.sceneJson()").await;
+        let scene =
+            Scene::from_json(json.as_str().expect("scene JSON")).expect("page scene is valid");
+        let mut bench = Workbench::new();
+        bench.set_file_mesh(imported.mesh.clone());
+        bench.render(&scene).expect("native render");
+        for (name, panel) in [
+            ("per_vertex", Panel::PerVertex),
+            ("per_pixel", Panel::PerPixel),
+        ] {
+            let (_, _, page) = canvas(&c, name).await;
+            assert!(
+                page == bench.framebuffer(panel).bytes(),
+                "OBJ with its library: the {name} panel differs from the native render"
+            );
+        }
+        let surface_note = eval(
+            &c,
+            "const n = document.getElementById('surface-note'); return n.hidden ? '' : n.textContent",
+        )
+        .await;
+        assert!(
+            surface_note
+                .as_str()
+                .is_some_and(|t| t.contains("2 materials")),
+            "the Surface settings say they do not apply: {surface_note}"
+        );
+        c.execute(
+            "document.getElementById('file-material').value = '0';
+             document.getElementById('copy-material').click();",
+            vec![],
+        )
+        .await
+        .expect("edit a copy");
+        let json = eval(&c, "return window.twinshade.sceneJson()").await;
+        let copied =
+            Scene::from_json(json.as_str().expect("scene JSON")).expect("page scene is valid");
+        let (material, model) = twinshade::pipeline::file_material(
+            &imported.mesh.materials[0],
+            &scene.material,
+            scene.model,
+        );
+        assert_eq!(
+            copied.material_source,
+            twinshade::scene::MaterialSource::Scene
+        );
+        assert_eq!((copied.material.clone(), copied.model), (material, model));
+        assert_eq!(
+            copied.model,
+            twinshade::shading::ReflectionModel::BlinnPhong
+        );
+    }
+
     // A sweep: a roll sweep of the scanline-quad preset runs to completion in slices, its
     // series equal the native sweep's (same CSV, byte for byte), the plot appears, and
     // clicking a point of it shows that step's scene.

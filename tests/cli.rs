@@ -248,6 +248,57 @@ fn render_a_mesh_file_reports_its_counts() {
     assert_eq!(m["mesh"]["faces"], 4);
     assert_eq!(m["mesh"]["dropped_faces"], 1);
     assert_eq!(m["mesh"]["format"], "obj");
+    assert_eq!(m["mesh"]["materials"], 0);
+    // With a material library named and put beside it in a subfolder: read from there, and
+    // the materials counted; without it, a note says which file was missing.
+    std::fs::create_dir_all(dir.join("mat")).expect("dir");
+    std::fs::write(
+        dir.join("mat/wedge.mtl"),
+        "newmtl red\nKd 0.8 0.1 0.1\nKs 0.5 0.5 0.5\nNs 30\n",
+    )
+    .expect("write");
+    let text = "mtllib mat/wedge.mtl\nusemtl red\nv 0 0 0\nv 1 0 0\nv 0 1 0\nv 0 0 1\nf 1 3 2\nf 1 2 4\nf 3 1 4\n";
+    std::fs::write(&obj, text).expect("write");
+    let render = |obj: &std::path::Path| {
+        twinshade(&[
+            "render",
+            "--mesh",
+            obj.to_str().expect("utf-8"),
+            "--size",
+            "60x45",
+            "--out-dir",
+            &d,
+            "--metrics",
+            &metrics,
+        ])
+    };
+    let out = render(&obj);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        out.status.success() && err.contains(", 1 materials"),
+        "{err}"
+    );
+    assert!(!err.contains("note:"), "{err}");
+    let m: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(&metrics).expect("metrics")).expect("JSON");
+    assert_eq!(m["mesh"]["materials"], 1);
+    std::fs::remove_file(dir.join("mat/wedge.mtl")).expect("remove");
+    let out = render(&obj);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        out.status.success()
+            && err.contains(", 0 materials")
+            && err.contains("note: the material library 'mat/wedge.mtl' was not given"),
+        "{err}"
+    );
+    let m: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(&metrics).expect("metrics")).expect("JSON");
+    assert!(
+        m["mesh"]["notes"][0]
+            .as_str()
+            .is_some_and(|n| n.contains("wedge.mtl")),
+        "{m}"
+    );
     // A broken mesh: a message with the line, a failing exit code.
     std::fs::write(&obj, "v 0 0 0\nf 1 2 3\n").expect("write");
     let out = twinshade(&[

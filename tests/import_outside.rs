@@ -7,48 +7,10 @@
 
 use glam::Vec3;
 use std::io::Cursor;
-use std::path::PathBuf;
 use twinshade::geometry::{import, Format, Imported, Mesh, Shape};
 mod common;
 use common::fixtures::{ply_files, three_files, CUBE_OBJ};
-
-/// The folder of a dependency package `name` at exactly `version`, as cargo resolved it.
-fn package_dir(name: &str, version: &str) -> PathBuf {
-    let cargo = std::env::var("CARGO").unwrap_or_else(|_| "cargo".into());
-    let out = std::process::Command::new(cargo)
-        .args(["metadata", "--format-version", "1", "--offline"])
-        .current_dir(env!("CARGO_MANIFEST_DIR"))
-        .output()
-        .expect("run cargo metadata");
-    assert!(
-        out.status.success(),
-        "cargo metadata: {}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let meta: serde_json::Value = serde_json::from_slice(&out.stdout).expect("metadata JSON");
-    let manifest = meta["packages"]
-        .as_array()
-        .expect("packages")
-        .iter()
-        .find(|p| p["name"] == name && p["version"] == version)
-        .and_then(|p| p["manifest_path"].as_str())
-        .unwrap_or_else(|| panic!("package {name} {version} is not among the dependencies"));
-    PathBuf::from(manifest)
-        .parent()
-        .expect("package folder")
-        .to_path_buf()
-}
-
-fn outside_file(package: &str, version: &str, path: &str) -> (String, Vec<u8>) {
-    let file = package_dir(package, version).join(path);
-    let bytes = std::fs::read(&file).unwrap_or_else(|e| panic!("{package} {version} {path}: {e}"));
-    let name = file
-        .file_name()
-        .and_then(|n| n.to_str())
-        .expect("file name")
-        .to_string();
-    (name, bytes)
-}
+use common::outside::outside_file;
 
 /// Positions are compared in the file's units: the importer centres and scales each mesh and
 /// records how ([`Imported::fit`]); undoing that costs a few ulps.

@@ -193,3 +193,120 @@ fn a_mesh_split_along_seams_shades_like_the_same_mesh_welded() {
         "only {differing} pixels differ when kept apart"
     );
 }
+
+/// Positions and 0-based triangles.
+type Triangles = (Vec<[f32; 3]>, Vec<[u32; 3]>);
+
+/// The Utah teapot as the npm registry package `teapot` 1.0.0 ships it (public domain): a
+/// CommonJS file `exports.positions=[[x,y,z],...];exports.cells=[[i,j,k],...];`, 0-based
+/// triangles split along the patch seams. `.ci/fetch-outside` downloads the package, checks
+/// its SHA-1 against the registry's, and unpacks it under target/outside/ (nothing is copied
+/// into the repo). `None` when it is not there.
+fn registry_teapot() -> Option<Triangles> {
+    let dir = std::env::var_os("TWINSHADE_OUTSIDE_DIR")
+        .map(std::path::PathBuf::from)
+        .unwrap_or_else(|| common::crate_root().join("target/outside"));
+    let text = std::fs::read_to_string(dir.join("teapot-1.0.0/package/teapot.js")).ok()?;
+    let array = |key: &str| {
+        let start = text.find(key).expect(key) + key.len();
+        let end = start + text[start..].find(';').expect("';'");
+        text[start..end].to_string()
+    };
+    let positions = serde_json::from_str(&array("exports.positions=")).expect("positions JSON");
+    let cells = serde_json::from_str(&array("exports.cells=")).expect("cells JSON");
+    Some((positions, cells))
+}
+
+#[test]
+fn the_registry_teapot_split_at_its_patch_seams_shades_as_welded() {
+    use twinshade::geometry::import;
+    use twinshade::scene::{MeshSource, NormalSource, PanelSize};
+    use twinshade::Scene;
+    let Some((positions, cells)) = registry_teapot() else {
+        let required = std::env::var("TWINSHADE_REQUIRE_OUTSIDE").is_ok_and(|v| v == "1");
+        eprintln!(
+            "SKIPPED: the npm package teapot 1.0.0 is not under target/outside (run .ci/fetch-outside)"
+        );
+        assert!(
+            !required,
+            "TWINSHADE_REQUIRE_OUTSIDE=1 and the teapot package is missing"
+        );
+        return;
+    };
+    // As the package ships it: 792 vertices at 529 distinct positions, 992 triangles.
+    let mut distinct: Vec<[u32; 3]> = positions.iter().map(|p| p.map(f32::to_bits)).collect();
+    distinct.sort_unstable();
+    distinct.dedup();
+    assert_eq!(
+        (positions.len(), distinct.len(), cells.len()),
+        (792, 529, 992)
+    );
+    // The same triangles written as OBJ twice: as shipped (split), and welded (one index per
+    // distinct position).
+    let obj = |index: &dyn Fn(u32) -> u32, count: usize| {
+        let mut text = String::new();
+        let mut written = vec![false; positions.len()];
+        let mut order = vec![0usize; count];
+        for i in 0..positions.len() {
+            let k = index(i as u32) as usize;
+            if !written[k] {
+                written[k] = true;
+                order[k] = i;
+            }
+        }
+        for &i in &order {
+            let p = positions[i];
+            text += &format!("v {} {} {}\n", p[0], p[1], p[2]);
+        }
+        for c in &cells {
+            text += &format!(
+                "f {} {} {}\n",
+                index(c[0]) + 1,
+                index(c[1]) + 1,
+                index(c[2]) + 1
+            );
+        }
+        import("teapot.obj", text.as_bytes()).expect("imports").mesh
+    };
+    let bits: Vec<[u32; 3]> = positions.iter().map(|p| p.map(f32::to_bits)).collect();
+    let weld = |i: u32| distinct.binary_search(&bits[i as usize]).expect("listed") as u32;
+    let split = obj(&|i| i, positions.len());
+    let welded = obj(&weld, distinct.len());
+    assert_eq!((split.positions.len(), welded.positions.len()), (792, 529));
+    let render = |mesh: &Mesh, coincident: Coincident| {
+        let mut scene = Scene {
+            mesh: MeshSource::File {
+                name: "teapot.obj".into(),
+            },
+            panel: PanelSize {
+                width: 200,
+                height: 150,
+            },
+            ..Scene::default()
+        };
+        scene.normals.source = NormalSource::Computed;
+        scene.normals.coincident = coincident;
+        scene.turn(25.0, 15.0);
+        common::render_file_mesh(mesh, &scene)
+    };
+    let reference = render(&welded, Coincident::Joined);
+    assert!(
+        render(&split, Coincident::Joined) == reference,
+        "the split teapot, its seams joined, differs from the welded one"
+    );
+    // Kept apart, the seams show: pixels of the per-pixel panel more than 1 CIEDE2000 apart.
+    let apart = render(&split, Coincident::Separate);
+    let over_one = apart[1]
+        .chunks_exact(4)
+        .zip(reference[1].chunks_exact(4))
+        .filter(|(a, b)| {
+            let lab = |p: &[u8]| twinshade::analysis::srgb8_to_lab([p[0], p[1], p[2]]);
+            twinshade::analysis::ciede2000(lab(a), lab(b)) > 1.0
+        })
+        .count();
+    eprintln!("teapot seams kept apart: {over_one} pixels over 1 dE00");
+    assert!(
+        over_one > 500,
+        "only {over_one} pixels differ by more than 1 dE00 kept apart"
+    );
+}

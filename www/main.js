@@ -66,7 +66,7 @@ async function start() {
     report: () => app.viewer.report(),
     sweepCsv: () => app.viewer.sweepCsv(),
     advice: () => app.viewer.advice(),
-    loadMesh: (name, bytes) => loadMeshBytes(name, bytes),
+    loadMesh: (name, bytes, companions) => loadMeshBytes(name, bytes, companions),
     sheetDataUrl: () => {
       const c = sheetCanvas();
       return [c.width, c.height, c.toDataURL("image/png")];

@@ -40,6 +40,11 @@ impl Workbench {
         self.renderer.set_file_mesh(mesh);
     }
 
+    /// The mesh supplied by [`Workbench::set_file_mesh`], if any.
+    pub fn file_mesh(&self) -> Option<&Mesh> {
+        self.renderer.file_mesh()
+    }
+
     /// Validates `scene` and prepares its geometry (normals, subdivision, polygon split),
     /// without drawing: a scene that cannot be drawn (say, subdivided past the triangle limit)
     /// is refused here, before it replaces a working one.

@@ -694,7 +694,26 @@ fn load_mesh(path: &Path) -> Result<twinshade::geometry::Imported, String> {
         || path.display().to_string(),
         |n| n.to_string_lossy().into_owned(),
     );
-    let imported = twinshade::geometry::import(&name, &bytes).map_err(|e| e.to_string())?;
+    // The files it refers to (an OBJ's material libraries), read from beside it: the path
+    // as written, else the same name in the mesh's folder.
+    let folder = path.parent().unwrap_or(Path::new(""));
+    let read: Vec<(String, Vec<u8>)> = twinshade::geometry::companions(&name, &bytes)
+        .into_iter()
+        .filter_map(|wanted| {
+            let as_written = folder.join(wanted.replace('\\', "/"));
+            let beside = folder.join(wanted.rsplit(['/', '\\']).next().unwrap_or(&wanted));
+            let bytes = std::fs::read(&as_written)
+                .or_else(|_| std::fs::read(beside))
+                .ok()?;
+            Some((wanted, bytes))
+        })
+        .collect();
+    let companions: Vec<twinshade::geometry::Companion> = read
+        .iter()
+        .map(|(name, bytes)| twinshade::geometry::Companion { name, bytes })
+        .collect();
+    let imported =
+        twinshade::geometry::import_with(&name, &bytes, &companions).map_err(|e| e.to_string())?;
     let info = imported.info();
     eprintln!(
         "twinshade: {}: {} vertices, {} faces, {} triangles, {} degenerate faces dropped, {} normals, {}, {} materials",
@@ -711,6 +730,9 @@ fn load_mesh(path: &Path) -> Result<twinshade::geometry::Imported, String> {
         },
         info.materials
     );
+    for note in &info.notes {
+        eprintln!("twinshade: {}: note: {note}", info.name);
+    }
     Ok(imported)
 }
 

@@ -2,18 +2,20 @@
 //! clean-up every import gets (degenerate faces dropped, centred and scaled to the view).
 //!
 //! Formats: Wavefront OBJ ([`obj`]), STL binary and ASCII ([`stl`]), PLY ASCII and binary
-//! ([`ply`]), glTF 2.0 `.gltf` and `.glb` ([`gltf`], through the `gltf` crate). The OBJ, STL
+//! ([`ply`]), glTF 2.0 `.gltf` and `.glb` ([`gltf`], through the `gltf` crate). An OBJ file's
+//! material library (`.mtl`, [`mtl`]) comes with it as a companion file ([`import_with`]). The OBJ, STL
 //! and PLY parsers are our own, small and strict: the crates we evaluated for them (`tobj` 4,
 //! `stl_io` 0.11, `ply-rs` 0.1) report failures without a line number or byte offset, and
 //! users must be told *where* a file is broken. Every parser works on bytes in memory (the page reads dropped files locally) and
 //! never panics: malformed input of any kind becomes an [`ImportError`].
 
 mod gltf;
+mod mtl;
 mod obj;
 mod ply;
 mod stl;
 
-use crate::geometry::mesh::{Fit, Mesh, MeshError, MAX_TRIANGLES};
+use crate::geometry::mesh::{FileMaterial, Fit, Mesh, MeshError, Reflectance, MAX_TRIANGLES};
 use serde::Serialize;
 use std::fmt;
 
@@ -120,6 +122,18 @@ pub struct Imported {
     pub has_normals: bool,
     /// How the mesh was centred and scaled (maps positions back to the file's).
     pub fit: Fit,
+    /// What the user should know about what was read and what was not (a material library
+    /// that was not given, materials it lacks, texture maps not used).
+    pub notes: Vec<String>,
+}
+
+/// A file a mesh file refers to (an OBJ's material library), given with it.
+#[derive(Clone, Copy, Debug)]
+pub struct Companion<'a> {
+    /// Its file name (a path's last part is what is matched).
+    pub name: &'a str,
+    /// Its bytes.
+    pub bytes: &'a [u8],
 }
 
 /// Counts reported for an imported mesh (page and `--metrics`).
@@ -141,8 +155,10 @@ pub struct MeshInfo {
     pub authored_normals: bool,
     /// True when the file gives vertex colours.
     pub vertex_colors: bool,
-    /// Materials the file gives (glTF; 0 when it gives none).
+    /// Materials the file gives (glTF, or an OBJ's library; 0 when it gives none).
     pub materials: usize,
+    /// Notes on what was and was not read (see [`Imported::notes`]).
+    pub notes: Vec<String>,
 }
 
 impl Imported {
@@ -157,7 +173,13 @@ impl Imported {
             dropped_faces: self.dropped_faces,
             authored_normals: self.has_normals,
             vertex_colors: !self.mesh.colors.is_empty(),
-            materials: self.mesh.materials.len(),
+            materials: self
+                .mesh
+                .materials
+                .iter()
+                .filter(|m| m.reflectance != Reflectance::Viewer)
+                .count(),
+            notes: self.notes.clone(),
         }
     }
 }
@@ -222,11 +244,176 @@ pub fn detect(name: &str, bytes: &[u8]) -> Result<Format, ParseError> {
     ))
 }
 
-/// Imports a mesh file from its bytes.
+/// The files a mesh file refers to, as it names them (an OBJ's `mtllib` libraries; nothing for
+/// other formats), so a caller can fetch them for [`import_with`]. A name with spaces is
+/// offered whole and split.
+pub fn companions(name: &str, bytes: &[u8]) -> Vec<String> {
+    if detect(name, bytes) != Ok(Format::Obj) {
+        return Vec::new();
+    }
+    let mut wanted: Vec<String> = Vec::new();
+    for line in String::from_utf8_lossy(bytes).lines() {
+        let Some(rest) = line.trim().strip_prefix("mtllib") else {
+            continue;
+        };
+        let rest = rest.split('#').next().unwrap_or("").trim();
+        let whole = std::iter::once(rest).filter(|r| r.contains(char::is_whitespace));
+        for n in whole.chain(rest.split_ascii_whitespace()) {
+            if !n.is_empty() && !wanted.iter().any(|w| w == n) {
+                wanted.push(n.to_string());
+            }
+        }
+    }
+    wanted
+}
+
+/// Imports a mesh file from its bytes (see [`import_with`] for files with companions).
 ///
 /// # Errors
 /// An [`ImportError`] naming the file, the place and the problem.
 pub fn import(name: &str, bytes: &[u8]) -> Result<Imported, ImportError> {
+    import_with(name, bytes, &[])
+}
+
+/// The last part of a path written with either separator.
+fn base_name(path: &str) -> &str {
+    path.rsplit(['/', '\\']).next().unwrap_or(path)
+}
+
+/// The companion a reference names: the same last path part, exactly or else ignoring case.
+fn find_companion<'a>(companions: &[Companion<'a>], wanted: &str) -> Option<Companion<'a>> {
+    let want = base_name(wanted);
+    companions
+        .iter()
+        .find(|c| base_name(c.name) == want)
+        .or_else(|| {
+            companions
+                .iter()
+                .find(|c| base_name(c.name).eq_ignore_ascii_case(want))
+        })
+        .copied()
+}
+
+/// Gives an OBJ mesh the materials its faces name, from the libraries among `companions`.
+fn attach_materials(
+    file: obj::ObjFile,
+    companions: &[Companion],
+    notes: &mut Vec<String>,
+) -> Result<Mesh, ImportError> {
+    let obj::ObjFile {
+        mut mesh,
+        libraries,
+        material_names,
+        face_material,
+    } = file;
+    if face_material.is_empty() {
+        return Ok(mesh);
+    }
+    let mut loaded: Vec<FileMaterial> = Vec::new();
+    let mut missing_libraries: Vec<&str> = Vec::new();
+    let mut texture_maps = 0;
+    for text in &libraries {
+        let names: Vec<&str> = match find_companion(companions, text) {
+            Some(_) => vec![text.as_str()],
+            None => text.split_ascii_whitespace().collect(),
+        };
+        for wanted in names {
+            let Some(c) = find_companion(companions, wanted) else {
+                missing_libraries.push(wanted);
+                continue;
+            };
+            let library = mtl::parse(c.bytes).map_err(|e| ImportError {
+                file: c.name.to_string(),
+                at: e.at,
+                message: e.message,
+            })?;
+            texture_maps += library.texture_maps;
+            loaded.extend(library.materials);
+        }
+    }
+    if !missing_libraries.is_empty() {
+        notes.push(format!(
+            "the material librar{} {} {} not given (put {} beside the OBJ file, or drop {} together with it)",
+            if missing_libraries.len() == 1 { "y" } else { "ies" },
+            missing_libraries.iter().map(|n| format!("'{n}'")).collect::<Vec<_>>().join(", "),
+            if missing_libraries.len() == 1 { "was" } else { "were" },
+            if missing_libraries.len() == 1 { "it" } else { "them" },
+            if missing_libraries.len() == 1 { "it" } else { "them" },
+        ));
+    }
+    if libraries.is_empty() {
+        notes.push(
+            "the faces name materials but the file names no material library ('mtllib')".into(),
+        );
+    }
+    if texture_maps > 0 {
+        notes.push(format!(
+            "{texture_maps} texture map{} in the material library {} not read: materials are lit with their factors only",
+            if texture_maps == 1 { "" } else { "s" },
+            if texture_maps == 1 { "is" } else { "are" },
+        ));
+    }
+    // The used materials in order of first use; a face naming none, or one no library
+    // defines, gets the viewer's material.
+    let mut lacking: Vec<&str> = Vec::new();
+    let used: Vec<Option<FileMaterial>> = material_names
+        .iter()
+        .map(|n| {
+            let found = loaded.iter().find(|m| &m.name == n).cloned();
+            if found.is_none() && !loaded.is_empty() {
+                lacking.push(n);
+            }
+            found
+        })
+        .collect();
+    if used.iter().all(Option::is_none) {
+        return Ok(mesh);
+    }
+    if !lacking.is_empty() {
+        notes.push(format!(
+            "the material librar{} lack{} {}: those faces use the viewer's material",
+            if libraries.len() == 1 { "y" } else { "ies" },
+            if libraries.len() == 1 { "s" } else { "" },
+            lacking
+                .iter()
+                .map(|n| format!("'{n}'"))
+                .collect::<Vec<_>>()
+                .join(", ")
+        ));
+    }
+    let mut index = vec![u32::MAX; used.len()];
+    for (slot, m) in index.iter_mut().zip(&used) {
+        if let Some(m) = m {
+            *slot = mesh.materials.len() as u32;
+            mesh.materials.push(m.clone());
+        }
+    }
+    let viewer = mesh.materials.len() as u32;
+    mesh.face_material = face_material
+        .iter()
+        .map(|&m| index.get(m as usize).copied().unwrap_or(u32::MAX))
+        .map(|m| if m == u32::MAX { viewer } else { m })
+        .collect();
+    if mesh.face_material.contains(&viewer) {
+        mesh.materials.push(FileMaterial {
+            name: "(no material: the viewer's)".into(),
+            reflectance: Reflectance::Viewer,
+            ..FileMaterial::default()
+        });
+    }
+    Ok(mesh)
+}
+
+/// Imports a mesh file from its bytes, with the files it refers to (see [`companions`]); a
+/// companion it names but that is not given is reported in [`Imported::notes`].
+///
+/// # Errors
+/// An [`ImportError`] naming the file (the mesh or a companion), the place and the problem.
+pub fn import_with(
+    name: &str,
+    bytes: &[u8],
+    companions: &[Companion],
+) -> Result<Imported, ImportError> {
     let fail = |e: ParseError| ImportError {
         file: name.to_string(),
         at: e.at,
@@ -243,14 +430,17 @@ pub fn import(name: &str, bytes: &[u8]) -> Result<Imported, ImportError> {
         return Err(fail(ParseError::file("the file is empty")));
     }
     let format = detect(name, bytes).map_err(fail)?;
+    let mut notes = Vec::new();
     let mut mesh = match format {
-        Format::Obj => obj::parse(bytes),
-        Format::StlBinary => stl::parse_binary(bytes),
-        Format::StlAscii => stl::parse_ascii(bytes),
-        Format::Gltf | Format::Glb => gltf::parse(bytes),
-        Format::Ply => ply::parse(bytes),
-    }
-    .map_err(fail)?;
+        Format::Obj => {
+            let file = obj::parse(bytes).map_err(fail)?;
+            attach_materials(file, companions, &mut notes)?
+        }
+        Format::StlBinary => stl::parse_binary(bytes).map_err(fail)?,
+        Format::StlAscii => stl::parse_ascii(bytes).map_err(fail)?,
+        Format::Gltf | Format::Glb => gltf::parse(bytes).map_err(fail)?,
+        Format::Ply => ply::parse(bytes).map_err(fail)?,
+    };
     mesh.name = name.to_string();
     let dropped_faces = mesh.drop_degenerate_faces();
     mesh.validate().map_err(|e| {
@@ -272,6 +462,7 @@ pub fn import(name: &str, bytes: &[u8]) -> Result<Imported, ImportError> {
         dropped_faces,
         has_normals,
         fit,
+        notes,
     })
 }
 

@@ -36,6 +36,27 @@ pub struct FileMaterial {
     pub emissive: Vec3,
     /// glTF `doubleSided`: both faces drawn (no back-face culling).
     pub double_sided: bool,
+    /// How the material reflects light.
+    pub reflectance: Reflectance,
+}
+
+/// Which reflection model a file's material asks for.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum Reflectance {
+    /// glTF 2.0 metallic-roughness (`metallic`, `roughness`); also an OBJ material with the
+    /// `Pr`/`Pm` statements.
+    MetallicRoughness,
+    /// An OBJ material's Blinn-Phong terms: the specular colour `Ks` (linear) and the
+    /// exponent `Ns`; the diffuse colour `Kd` is the base colour.
+    Specular {
+        /// `Ks`, linear.
+        color: Vec3,
+        /// `Ns`.
+        exponent: f32,
+    },
+    /// No material assigned (an OBJ face before any `usemtl`, or naming a material its
+    /// library lacks): lit with the viewer's own material.
+    Viewer,
 }
 
 impl Default for FileMaterial {
@@ -49,6 +70,7 @@ impl Default for FileMaterial {
             roughness: 1.0,
             emissive: Vec3::ZERO,
             double_sided: false,
+            reflectance: Reflectance::MetallicRoughness,
         }
     }
 }

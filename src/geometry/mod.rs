@@ -11,10 +11,12 @@ pub(crate) mod vertex_buffer;
 
 pub use camera::{Camera, CameraFrame, Projection};
 pub use import::{
-    detect, import, Format, ImportError, Imported, Location, MeshInfo, ParseError, MAX_FILE_BYTES,
+    companions, detect, import, import_with, Companion, Format, ImportError, Imported, Location,
+    MeshInfo, ParseError, MAX_FILE_BYTES,
 };
 pub use mesh::{
-    polygon_area_vector, Corner, FileMaterial, Fit, Mesh, MeshError, MAX_TRIANGLES, NO_NORMAL,
+    polygon_area_vector, Corner, FileMaterial, Fit, Mesh, MeshError, Reflectance, MAX_TRIANGLES,
+    NO_NORMAL,
 };
 pub use normals::{compute_normals, Coincident, NormalWeighting};
 pub use shapes::{DetailControl, Shape};

@@ -16,7 +16,7 @@
 //! allocates nothing once sizes are stable.
 
 use crate::geometry::camera::CameraFrame;
-use crate::geometry::mesh::{FileMaterial, Mesh};
+use crate::geometry::mesh::{FileMaterial, Mesh, Reflectance};
 use crate::geometry::normals::{compute_normals, Coincident};
 use crate::geometry::shapes::Shape;
 use crate::geometry::vertex_buffer::MAX_CORNERS;
@@ -37,7 +37,7 @@ use crate::scene::settings::{
     GltfNormals, MaterialSource, MeshSource, NormalSettings, NormalSource, ShadingMode,
 };
 use crate::shading::color::{encode_srgb8, srgb_to_linear, Rgb, SrgbEncoder};
-use crate::shading::lighting::{Lighting, Material, ReflectionModel};
+use crate::shading::lighting::{Finish, Lighting, Material, ReflectionModel};
 use glam::{Mat3, Quat, Vec3, Vec4};
 use serde::Serialize;
 
@@ -119,6 +119,11 @@ impl Renderer {
     pub fn set_file_mesh(&mut self, mesh: Mesh) {
         self.imported = Some(mesh);
         self.geometry = None;
+    }
+
+    /// The mesh supplied by [`Renderer::set_file_mesh`], if any.
+    pub fn file_mesh(&self) -> Option<&Mesh> {
+        self.imported.as_ref()
     }
 
     /// Prepares the mesh of `scene` for drawing (normals, subdivision, polygon split); reused
@@ -244,14 +249,18 @@ impl Renderer {
             _ => &[],
         };
         for fm in file_materials {
-            let material = file_material(fm, &scene.material);
-            self.lightings.push(Lighting::new(
+            let (material, model) = file_material(fm, &scene.material, scene.model);
+            let lit = Lighting::new(
                 &scene.lights,
                 scene.ambient_light,
                 &material,
-                ReflectionModel::MetallicRoughness,
+                model,
                 &camera,
-            ));
+            );
+            self.lightings.push(match fm.reflectance {
+                Reflectance::Specular { color, .. } => lit.with_specular_color(color),
+                _ => lit,
+            });
             self.double_sided.push(fm.double_sided);
         }
         Ok(Frame {
@@ -836,18 +845,44 @@ struct Frame {
     persp: bool,
 }
 
-/// A file's material as the scene's material type: the file's base colour, metallic,
-/// roughness and emission (colours rounded to the nearest 8-bit sRGB code, as the page's own
-/// colours are), with the scene's ambient reflectance.
-fn file_material(fm: &FileMaterial, scene: &Material) -> Material {
+/// A file's material as the scene's material type and the model that lights it (colours
+/// rounded to the nearest 8-bit sRGB code, as the page's own colours are; the scene's ambient
+/// reflectance). A glTF material (or an OBJ material with roughness or metalness) is
+/// metallic-roughness; an OBJ material's diffuse colour, highlight and exponent are a
+/// Blinn-Phong material whose specular colour [`Lighting::with_specular_color`] sets; a face
+/// without a material keeps the scene's.
+pub fn file_material(
+    fm: &FileMaterial,
+    scene: &Material,
+    scene_model: ReflectionModel,
+) -> (Material, ReflectionModel) {
     let srgb = |c: Vec3| Rgb(c.to_array().map(|v| encode_srgb8(v.clamp(0.0, 1.0))));
-    Material {
+    let own = Material {
         base_color: srgb(fm.base_color),
-        metallic: fm.metallic.clamp(0.0, 1.0),
-        roughness: fm.roughness.clamp(0.0, 1.0),
         emissive: srgb(fm.emissive),
         emissive_strength: 1.0,
         ..scene.clone()
+    };
+    match fm.reflectance {
+        Reflectance::MetallicRoughness => (
+            Material {
+                metallic: fm.metallic.clamp(0.0, 1.0),
+                roughness: fm.roughness.clamp(0.0, 1.0),
+                ..own
+            },
+            ReflectionModel::MetallicRoughness,
+        ),
+        Reflectance::Specular { color, exponent } => (
+            Material {
+                diffuse: 1.0,
+                specular: color.max_element().clamp(0.0, 1.0),
+                shininess: exponent.clamp(1.0, 2048.0),
+                finish: Finish::Dielectric,
+                ..own
+            },
+            ReflectionModel::BlinnPhong,
+        ),
+        Reflectance::Viewer => (scene.clone(), scene_model),
     }
 }
 

@@ -433,6 +433,21 @@ impl Lighting {
         }
     }
 
+    /// The same lighting with a coloured highlight: `color` (linear) replaces the material's
+    /// specular colour in the Phong models (an OBJ material's `Ks`; vertex colours do not tint
+    /// it). The metallic-roughness model has no such colour and is returned unchanged.
+    pub fn with_specular_color(self, color: Vec3) -> Lighting {
+        if self.gltf.is_some() {
+            return self;
+        }
+        Lighting {
+            specular: color,
+            specular_plain: color,
+            specular_base: Vec3::ZERO,
+            ..self
+        }
+    }
+
     /// Outgoing linear radiance at world position `p` with unit normal `n`.
     #[inline]
     pub fn shade(&self, n: Vec3, p: Vec3) -> Vec3 {

@@ -342,3 +342,47 @@ pub fn materials_gltf() -> Vec<u8> {
     });
     json::serialize::to_vec(&root).expect("serialises")
 }
+
+/// Three squares side by side in an OBJ file naming a library: the first before any `usemtl`,
+/// the second "plastic", the third a material the library lacks, then again as "brushed".
+pub const SQUARES_OBJ: &str = "mtllib squares.mtl
+v -3 -1 0
+v -1 -1 0
+v -1 1 0
+v -3 1 0
+v -1 -1 0
+v 1 -1 0
+v 1 1 0
+v -1 1 0
+v 1 -1 0
+v 3 -1 0
+v 3 1 0
+v 1 1 0
+f 1 2 3 4
+usemtl plastic
+f 5 6 7 8
+usemtl missing
+f 9 10 11 12
+usemtl brushed
+f 9 10 11 12
+";
+
+/// The library of [`SQUARES_OBJ`]: a Blinn-Phong plastic with a bluish highlight, a matte
+/// grey without highlight (`illum 1`), and a brushed metal with `Pr`/`Pm` and a texture map.
+pub const SQUARES_MTL: &str = "# our own library
+newmtl plastic
+Kd 0.8 0.1 0.1
+Ks 0.2 0.4 1.0
+Ns 40
+Ke 0 0 0
+illum 2
+newmtl matte
+Kd 0.5
+Ks 1 1 1
+illum 1
+newmtl brushed
+Kd 0.9 0.7 0.2
+Pr 0.35
+Pm 1
+map_Kd brushed.png
+";

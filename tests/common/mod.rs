@@ -6,6 +6,7 @@
 use std::path::PathBuf;
 
 pub mod fixtures;
+pub mod outside;
 
 #[path = "../../src/cli/png_out.rs"]
 mod png_out;

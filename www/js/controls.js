@@ -50,6 +50,40 @@ function detailControl(kind) {
   return app.vocab.shapes.find((c) => c.kind === kind);
 }
 
+const MODEL_WORDS = { phong: "Phong", blinn_phong: "Blinn-Phong", metallic_roughness: "metallic-roughness", page: "this page's" };
+
+/** The loaded file's materials: listed for "edit a copy", and whether Surface applies. */
+function syncFileMaterials(s) {
+  const list = s.mesh.file ? app.viewer.fileMaterials() : [];
+  const own = list.filter((m) => m.model !== "page");
+  const select = $("file-material");
+  const describe = (m) => {
+    const terms = m.model === "metallic_roughness"
+      ? `roughness ${m.roughness.toFixed(2)}, metallic ${m.metallic.toFixed(2)}`
+      : `shininess ${Math.round(m.shininess)}`;
+    return `${m.name}: ${MODEL_WORDS[m.model]}, ${m.base_color}, ${terms} (${m.faces} faces)`;
+  };
+  const wanted = own.map((m) => describe(m)).join("\n");
+  if (select.dataset.listed !== wanted) {
+    select.replaceChildren(...list.map((m, i) => [m, i]).filter(([m]) => m.model !== "page").map(([m, i]) => {
+      const o = document.createElement("option");
+      o.value = String(i);
+      o.textContent = describe(m);
+      return o;
+    }));
+    select.dataset.listed = wanted;
+  }
+  $("file-material-row").hidden = own.length === 0;
+  const fileLit = own.length > 0 && s.material_source === "file";
+  const surface = $("surface-note").parentElement;
+  surface.classList.toggle("inactive", fileLit);
+  $("surface-note").hidden = !fileLit;
+  $("surface-note").textContent = fileLit
+    ? `The mesh is lit with its file's ${own.length === 1 ? "material" : `${own.length} materials`}; ` +
+      `these settings apply only to faces without one. "Edit a copy" (Mesh) makes a file material this page's.`
+    : "";
+}
+
 /** Shows the scene's values in the controls. */
 export function syncControls() {
   const s = app.viewer.scene();
@@ -74,6 +108,7 @@ export function syncControls() {
   $("coincident").value = s.normals.coincident;
   $("vertex-colors").checked = s.vertex_colors;
   $("material-source").value = s.material_source;
+  syncFileMaterials(s);
   $("gltf-normals").value = s.normals.gltf_without_normals;
   $("crease").value = s.normals.crease_deg;
   $("crease-out").textContent = s.normals.crease_deg >= 180 ? "smooth" : `${Math.round(s.normals.crease_deg)}°`;
@@ -150,6 +185,17 @@ export function bindControls() {
   on("roughness", "input", (s) => { s.material.roughness = +$("roughness").value; });
   on("metallic", "input", (s) => { s.material.metallic = +$("metallic").value; });
   on("material-source", "change", (s) => { s.material_source = $("material-source").value; });
+  $("copy-material").addEventListener("click", () => {
+    try {
+      app.viewer.copyFileMaterial(+$("file-material").value);
+      showProblem("");
+    } catch (e) {
+      showProblem(`Not copied: ${says(e)}`);
+    }
+    $("preset").value = "";
+    syncControls();
+    requestRender();
+  });
   on("vertex-colors", "change", (s) => { s.vertex_colors = $("vertex-colors").checked; });
   on("coincident", "change", (s) => { s.normals.coincident = $("coincident").value; });
   on("gltf-normals", "change", (s) => { s.normals.gltf_without_normals = $("gltf-normals").value; });

@@ -5,17 +5,24 @@ import { requestRender } from "./loop.js";
 import { syncControls } from "./controls.js";
 import { leavePreset } from "./presets.js";
 
-/** Imports a mesh file's bytes; a broken file is explained and the previous scene stays. */
-export function loadMeshBytes(name, bytes) {
+/** Mesh files among several picked or dropped; the rest travel with them (an OBJ's `.mtl`). */
+const MESH_EXT = /\.(obj|stl|ply|gltf|glb)$/i;
+
+/** Imports a mesh file's bytes with its companions `[[name, bytes], ...]`; a broken file is
+ * explained and the previous scene stays. */
+export function loadMeshBytes(name, bytes, companions = []) {
   try {
-    const info = app.viewer.loadMesh(name, new Uint8Array(bytes));
+    const given = companions.map(([n, b]) => [n, new Uint8Array(b)]);
+    const info = app.viewer.loadMesh(name, new Uint8Array(bytes), given);
     showProblem("");
+    const notes = info.notes.length ? ` Note: ${info.notes.join("; ")}.` : "";
     $("mesh-info").textContent =
       `${info.name}: ${fmt(info.vertices)} vertices, ${fmt(info.faces)} faces, ` +
       `${fmt(info.triangles)} triangles, ${fmt(info.dropped_faces)} degenerate faces dropped; ` +
       `normals ${info.authored_normals ? "in the file" : "not in the file (computed)"}; ` +
       `${info.vertex_colors ? "vertex colours in the file" : "no vertex colours"}; ` +
-      `${info.materials ? `${fmt(info.materials)} material${info.materials > 1 ? "s" : ""} in the file` : "no materials in the file"}.`;
+      `${info.materials ? `${fmt(info.materials)} material${info.materials > 1 ? "s" : ""} in the file` : "no materials in the file"}.` +
+      notes;
     leavePreset();
     syncControls();
     requestRender();
@@ -26,11 +33,21 @@ export function loadMeshBytes(name, bytes) {
   }
 }
 
+/** Reads picked or dropped files: the first mesh file, with every other file as a companion. */
+async function readFiles(list) {
+  const files = Array.from(list || []);
+  const mesh = files.find((f) => MESH_EXT.test(f.name)) || files[0];
+  if (!mesh) return;
+  const others = files.filter((f) => f !== mesh);
+  const companions = await Promise.all(others.map(async (f) => [f.name, await f.arrayBuffer()]));
+  loadMeshBytes(mesh.name, await mesh.arrayBuffer(), companions);
+}
+
 export function bindMeshFiles() {
-  const read = (file) => file.arrayBuffer().then((b) => loadMeshBytes(file.name, b));
   $("mesh-file").addEventListener("change", () => {
-    const f = $("mesh-file").files[0];
-    if (f) read(f);
+    const picked = $("mesh-file");
+    // Read what was picked, then empty the picker so picking the same file again reloads it.
+    readFiles(picked.files).finally(() => { picked.value = ""; });
   });
   const zone = $("panels");
   zone.addEventListener("dragover", (e) => { e.preventDefault(); zone.classList.add("dropping"); });
@@ -38,12 +55,12 @@ export function bindMeshFiles() {
   zone.addEventListener("drop", (e) => {
     e.preventDefault();
     zone.classList.remove("dropping");
-    const f = e.dataTransfer && e.dataTransfer.files[0];
-    if (f) read(f);
+    if (e.dataTransfer) readFiles(e.dataTransfer.files);
   });
 }
 
-/** `?mesh=relative/path.obj`: a mesh that docs host beside the page (same site only). */
+/** `?mesh=relative/path.obj`: a mesh that docs host beside the page (same site only), with
+ * the files it names (an OBJ's material libraries) fetched from beside it. */
 export async function loadMeshFromQuery(path) {
   const url = new URL(path, location.href);
   if (url.origin !== location.origin) {
@@ -53,7 +70,17 @@ export async function loadMeshFromQuery(path) {
   try {
     const r = await fetch(url);
     if (!r.ok) throw new Error(`${r.status} ${r.statusText}`);
-    loadMeshBytes(url.pathname.split("/").pop() || "mesh", await r.arrayBuffer());
+    const bytes = await r.arrayBuffer();
+    const name = url.pathname.split("/").pop() || "mesh";
+    const wanted = app.Viewer.meshCompanions(name, new Uint8Array(bytes));
+    const companions = [];
+    for (const w of wanted) {
+      const c = new URL(w.replaceAll("\\", "/"), url);
+      if (c.origin !== location.origin) continue;
+      const got = await fetch(c).catch(() => null);
+      if (got && got.ok) companions.push([w, await got.arrayBuffer()]);
+    }
+    loadMeshBytes(name, bytes, companions);
   } catch (e) {
     showProblem(`Cannot fetch the mesh ${path}: ${says(e)}`);
   }

@@ -6,7 +6,7 @@
 //! not read).
 
 use super::ParseError;
-use crate::geometry::mesh::{Corner, FileMaterial, Mesh, MAX_TRIANGLES};
+use crate::geometry::mesh::{Corner, FileMaterial, Mesh, Reflectance, MAX_TRIANGLES};
 use base64::engine::general_purpose::STANDARD;
 use base64::Engine;
 use glam::{Mat3, Mat4, Vec3};
@@ -340,6 +340,7 @@ pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
                     roughness: pbr.roughness_factor(),
                     emissive: Vec3::from(m.emissive_factor()),
                     double_sided: m.double_sided(),
+                    reflectance: Reflectance::MetallicRoughness,
                 }
             })
             .collect();

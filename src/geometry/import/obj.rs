@@ -1,7 +1,8 @@
 //! Wavefront OBJ: `v` positions, `vn` normals, `f` faces of any size (kept as polygons),
 //! negative (relative) indices, several objects and groups merged into one mesh, and vertex
-//! colours written as `v x y z r g b`. Texture coordinates, materials, smoothing groups, lines
-//! and points are read past.
+//! colours written as `v x y z r g b`, and the materials faces name (`mtllib`, `usemtl`; the
+//! library itself is read by [`super::mtl`]). Texture coordinates, smoothing groups, lines and
+//! points are read past.
 
 use super::{xyz, ParseError};
 use crate::geometry::mesh::{Corner, Mesh, MAX_TRIANGLES, NO_NORMAL};
@@ -27,12 +28,26 @@ fn resolve(token: &str, len: usize, what: &str, line: usize) -> Result<u32, Pars
     Ok(resolved as u32)
 }
 
+/// An OBJ file read: the mesh, and the materials its faces name.
+#[derive(Clone, Debug)]
+pub struct ObjFile {
+    /// The mesh (no materials attached yet).
+    pub mesh: Mesh,
+    /// The text after each `mtllib`, in order.
+    pub libraries: Vec<String>,
+    /// The names `usemtl` gave, in order of first use.
+    pub material_names: Vec<String>,
+    /// Per face, an index into `material_names`, or `u32::MAX` before any `usemtl`; empty
+    /// when the file has no `usemtl`.
+    pub face_material: Vec<u32>,
+}
+
 /// Parses OBJ text.
 ///
 /// # Errors
 /// Non-UTF-8 bytes (with their offset), malformed numbers, bad or out-of-range indices and
 /// faces of fewer than three corners (with their line).
-pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
+pub fn parse(bytes: &[u8]) -> Result<ObjFile, ParseError> {
     let text = std::str::from_utf8(bytes).map_err(|e| {
         ParseError::byte(
             e.valid_up_to(),
@@ -43,6 +58,10 @@ pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
     let mut colors: Vec<Option<Vec3>> = Vec::new();
     let mut corners: Vec<Corner> = Vec::new();
     let mut triangles = 0usize;
+    let mut libraries = Vec::new();
+    let mut material_names: Vec<String> = Vec::new();
+    let mut face_material: Vec<u32> = Vec::new();
+    let mut using = u32::MAX;
     for (i, raw) in text.lines().enumerate() {
         let line = i + 1;
         let content = raw.split('#').next().unwrap_or("").trim();
@@ -111,12 +130,24 @@ pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
                     ));
                 }
                 mesh.push_face(&corners);
+                face_material.push(using);
             }
-            // Read past: texture coordinates, parameter-space vertices, grouping, materials,
-            // smoothing, lines, points, curves.
-            "vt" | "vp" | "o" | "g" | "s" | "usemtl" | "mtllib" | "l" | "p" | "cstype" | "deg"
-            | "curv" | "curv2" | "surf" | "parm" | "end" | "mg" | "bevel" | "c_interp"
-            | "d_interp" | "lod" | "shadow_obj" | "trace_obj" | "ctech" | "stech" => {}
+            "mtllib" => libraries.push(content["mtllib".len()..].trim().to_string()),
+            "usemtl" => {
+                let name = content["usemtl".len()..].trim();
+                using = match material_names.iter().position(|n| n == name) {
+                    Some(k) => k as u32,
+                    None => {
+                        material_names.push(name.to_string());
+                        material_names.len() as u32 - 1
+                    }
+                };
+            }
+            // Read past: texture coordinates, parameter-space vertices, grouping, smoothing,
+            // lines, points, curves.
+            "vt" | "vp" | "o" | "g" | "s" | "l" | "p" | "cstype" | "deg" | "curv" | "curv2"
+            | "surf" | "parm" | "end" | "mg" | "bevel" | "c_interp" | "d_interp" | "lod"
+            | "shadow_obj" | "trace_obj" | "ctech" | "stech" => {}
             other => {
                 return Err(ParseError::line(
                     line,
@@ -148,5 +179,13 @@ pub fn parse(bytes: &[u8]) -> Result<Mesh, ParseError> {
             out.push_face(face);
         }
     }
-    Ok(out)
+    if material_names.is_empty() {
+        face_material.clear();
+    }
+    Ok(ObjFile {
+        mesh: out,
+        libraries,
+        material_names,
+        face_material,
+    })
 }
