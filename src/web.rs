@@ -120,6 +120,7 @@ impl Viewer {
             modes: Vec<Mode>,
             models: Vec<Model>,
             min_roughness: f32,
+            exposure_ev: [f32; 2],
             shapes: [DetailControl; 6],
             sweep_axes: Vec<String>,
             sweep_metrics: Vec<String>,
@@ -146,6 +147,10 @@ impl Viewer {
                 })
                 .collect(),
             min_roughness: MIN_ROUGHNESS,
+            exposure_ev: [
+                crate::scene::definition::MIN_EXPOSURE_EV,
+                crate::scene::definition::MAX_EXPOSURE_EV,
+            ],
             shapes: Shape::DETAIL,
             sweep_axes: names(&[SweepAxis::Turntable, SweepAxis::Roll]),
             sweep_metrics: names(&[
@@ -380,6 +385,13 @@ impl Viewer {
             .map_err(js_error)?;
         self.replace_scene(next);
         Ok(())
+    }
+
+    /// What lit the last frame, in words: the page's material and model or the file's
+    /// materials, and the exposure.
+    #[wasm_bindgen(js_name = litWith)]
+    pub fn lit_with(&self) -> String {
+        self.bench.report().lit_with.describe()
     }
 
     /// The presets as `[{id, title, caption}]`.

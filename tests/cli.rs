@@ -602,6 +602,8 @@ fn material_options_change_the_scene_as_the_page_would() {
         "0.3",
         "--metallic",
         "1",
+        "--exposure",
+        "-1.5",
         "--out-dir",
         dir.to_str().expect("utf-8"),
     ]);
@@ -616,6 +618,7 @@ fn material_options_change_the_scene_as_the_page_would() {
     scene.model = twinshade::shading::ReflectionModel::MetallicRoughness;
     scene.material.roughness = 0.3;
     scene.material.metallic = 1.0;
+    scene.exposure_ev = -1.5;
     let mut fb = Framebuffer::new(0, 0);
     Renderer::new()
         .render(

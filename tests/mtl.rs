@@ -333,3 +333,57 @@ fn a_blinn_phong_library_material_renders_as_the_same_material_set_on_the_page()
     let v = common::render_file_mesh(&file.mesh, &viewer);
     assert_eq!(v, common::render_file_mesh(&bare, &viewer));
 }
+
+#[test]
+fn reports_say_which_materials_lit_the_frame() {
+    let file = squares(SQUARES_MTL).expect("imports");
+    let mut bench = twinshade::Workbench::new();
+    bench.set_file_mesh(file.mesh);
+    let mut scene = squares_scene();
+    scene.exposure_ev = -1.5;
+    let lit = bench
+        .render(&scene.checked().expect("valid"))
+        .expect("renders")
+        .lit_with;
+    assert_eq!(
+        (
+            lit.file_materials.blinn_phong,
+            lit.file_materials.metallic_roughness
+        ),
+        (1, 1)
+    );
+    assert_eq!(
+        lit.describe(),
+        "the file's 2 materials (1 Blinn-Phong, 1 metallic-roughness); exposure -1.5 EV"
+    );
+    scene.material_source = MaterialSource::Scene;
+    scene.exposure_ev = 0.0;
+    let report = *bench
+        .render(&scene.checked().expect("valid"))
+        .expect("renders");
+    assert_eq!(
+        report.lit_with.describe(),
+        "the page's material, Blinn-Phong (1977); exposure 0 EV"
+    );
+    let lines = twinshade::analysis::metrics_lines(&report);
+    assert!(
+        lines
+            .iter()
+            .any(|l| l.starts_with("Lit with the page's material")),
+        "{lines:?}"
+    );
+    let csv = report.to_csv("#s=2.x");
+    let (header, values) = csv.split_once('\n').expect("two lines");
+    let column = |name: &str| {
+        let i = header.split(',').position(|h| h == name).expect(name);
+        values
+            .trim_end()
+            .split(',')
+            .nth(i)
+            .expect("value")
+            .to_string()
+    };
+    assert_eq!(column("model"), "blinn_phong");
+    assert_eq!(column("file_materials_metallic_roughness"), "0");
+    assert_eq!(column("exposure_ev"), "0");
+}

@@ -14,6 +14,7 @@
 //! the end of the ladder.
 
 use crate::analysis::error::AnalysisError;
+use crate::analysis::report::LitWith;
 use crate::analysis::sweep::{Sweep, SweepAxis, SweepSettings};
 use crate::analysis::workbench::Workbench;
 use crate::draw::plot::{Plot, Rule, Series, PANEL_COLORS};
@@ -92,6 +93,10 @@ pub struct Advice {
     pub current_vertices: u64,
     /// Why the ladder ended without a passing rung, if it did.
     pub note: Option<String>,
+    /// What lit the scene as given (its material and exposure): the advice is about it.
+    pub lit_with: LitWith,
+    /// The same in words ("Lit with ...", see [`LitWith::describe`]).
+    pub lit_with_text: String,
 }
 
 impl Default for Rung {
@@ -308,6 +313,8 @@ impl Advisor {
             let r = *bench.render(&self.base)?;
             self.advice.current_pixels = r.lighting.per_pixel;
             self.advice.current_vertices = r.lighting.per_vertex;
+            self.advice.lit_with = r.lit_with;
+            self.advice.lit_with_text = format!("Lit with {}", r.lit_with.describe());
             self.started = true;
             return Ok(true);
         }

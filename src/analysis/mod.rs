@@ -16,7 +16,7 @@ pub use measure::{
     ciede2000, delta_e76, luminance, pixel_difference, srgb8_to_lab, srgb_to_xyz_matrix, Comparer,
     DiffMetrics, Lab, PixelDifference, Summary, SILHOUETTE_RGB, WHITE,
 };
-pub use report::{panel_labels, FrameReport, LightingCost, Panel};
+pub use report::{panel_labels, FrameReport, LightingCost, LitWith, Panel};
 pub use sheet::{metrics_lines, report_sheet, sheet, workbench_sheet, GAP, LABEL_STRIP};
 pub use sweep::{
     peak_luminance, Sweep, SweepAxis, SweepMetric, SweepSettings, SweepStep, SweepSummary,

@@ -2,7 +2,9 @@
 //! panels by name, and the report as CSV.
 
 use crate::analysis::measure::DiffMetrics;
+use crate::pipeline::render::FileMaterialCounts;
 use crate::scene::settings::ShadingMode;
+use crate::shading::lighting::ReflectionModel;
 use serde::Serialize;
 
 /// Lighting evaluations per frame of each path: the cost side of the comparison.
@@ -14,6 +16,46 @@ pub struct LightingCost {
     pub per_pixel: u64,
     /// Exact reference: one evaluation per shaded pixel (0 when not rendered).
     pub exact: u64,
+}
+
+/// What lit the frame: the scene's reflection model, the mesh file's materials in use, and
+/// the exposure, so a report says which material its figures are about.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Serialize)]
+pub struct LitWith {
+    /// The scene's reflection model: the page's material's, and that of faces without a file
+    /// material.
+    pub model: ReflectionModel,
+    /// The mesh file's materials lighting it (all 0 when the page's material does).
+    pub file_materials: FileMaterialCounts,
+    /// Exposure in stops.
+    pub exposure_ev: f32,
+}
+
+impl LitWith {
+    /// In words, e.g. "the file's 2 materials (metallic-roughness); exposure 0 EV" (sheets
+    /// and advice put "Lit with" before it).
+    pub fn describe(&self) -> String {
+        let f = self.file_materials;
+        let n = f.blinn_phong + f.metallic_roughness;
+        let what = if f.is_empty() {
+            format!("the page's material, {}", self.model.label())
+        } else {
+            let models = match (f.blinn_phong, f.metallic_roughness) {
+                (0, _) => "metallic-roughness".to_string(),
+                (_, 0) => "Blinn-Phong".to_string(),
+                (b, m) => format!("{b} Blinn-Phong, {m} metallic-roughness"),
+            };
+            format!(
+                "the file's {n} material{} ({models})",
+                if n == 1 { "" } else { "s" }
+            )
+        };
+        if self.exposure_ev == 0.0 {
+            format!("{what}; exposure 0 EV")
+        } else {
+            format!("{what}; exposure {:+} EV", self.exposure_ev)
+        }
+    }
 }
 
 /// What one frame of the workbench measured.
@@ -33,6 +75,8 @@ pub struct FrameReport {
     pub lighting: LightingCost,
     /// The renderer revision that drew the panels (see `scene::RENDERER_REVISION`).
     pub renderer_revision: u32,
+    /// What lit the frame.
+    pub lit_with: LitWith,
 }
 
 impl FrameReport {
@@ -43,9 +87,10 @@ impl FrameReport {
             "pair_a,pair_b,width,height,triangles,covered_pixels,silhouette_mismatch_pixels,\
 de00_mean,de00_p95,de00_max,de76_mean,de76_p95,de76_max,threshold_de00,share_above_threshold,\
 peak_luminance_a,peak_luminance_b,peak_ratio,lighting_per_vertex,lighting_per_pixel,\
-lighting_exact,renderer_revision,link";
+lighting_exact,renderer_revision,model,file_materials_blinn_phong,\
+file_materials_metallic_roughness,exposure_ev,link";
         format!(
-            "{header}\n{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{link}\n",
+            "{header}\n{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{},{link}\n",
             self.pair[0].id(),
             self.pair[1].id(),
             self.width,
@@ -68,6 +113,10 @@ lighting_exact,renderer_revision,link";
             self.lighting.per_pixel,
             self.lighting.exact,
             self.renderer_revision,
+            self.lit_with.model.id(),
+            self.lit_with.file_materials.blinn_phong,
+            self.lit_with.file_materials.metallic_roughness,
+            self.lit_with.exposure_ev,
         )
     }
 }

@@ -69,6 +69,7 @@ pub fn metrics_lines(report: &FrameReport) -> Vec<String> {
             report.height,
             report.renderer_revision
         ),
+        format!("Lit with {}", report.lit_with.describe()),
     ]
 }
 

@@ -8,7 +8,7 @@
 //! stable.
 
 use crate::analysis::measure::{pixel_difference, Comparer, PixelDifference};
-use crate::analysis::report::{FrameReport, LightingCost, Panel};
+use crate::analysis::report::{FrameReport, LightingCost, LitWith, Panel};
 use crate::geometry::mesh::Mesh;
 use crate::pipeline::framebuffer::Framebuffer;
 use crate::pipeline::render::{PanelStats, PrepareError, Renderer};
@@ -115,6 +115,11 @@ impl Workbench {
             pair,
             metrics,
             renderer_revision: RENDERER_REVISION,
+            lit_with: LitWith {
+                model: scene.model,
+                file_materials: self.renderer.file_materials_lighting(scene),
+                exposure_ev: scene.exposure_ev,
+            },
             lighting: LightingCost {
                 per_vertex: self.stats[0].lit_vertices,
                 per_pixel: self.stats[1].fragments,

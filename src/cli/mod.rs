@@ -180,6 +180,10 @@ struct SceneArgs {
     /// Ignore a mesh file's vertex colours.
     #[arg(long)]
     no_vertex_colors: bool,
+    /// Exposure in stops, -10 to 10: light is scaled by 2^EV before the sRGB encoding, to
+    /// bring bright highlights below clipping (overrides the scene's).
+    #[arg(long, allow_hyphen_values = true)]
+    exposure: Option<f32>,
 }
 
 #[derive(Clone, Copy, clap::ValueEnum)]
@@ -225,6 +229,9 @@ impl SceneArgs {
         }
         if self.no_vertex_colors {
             scene.vertex_colors = false;
+        }
+        if let Some(ev) = self.exposure {
+            scene.exposure_ev = ev;
         }
     }
 
@@ -657,6 +664,7 @@ fn advise(
             r.mean_p95
         );
     }
+    println!("{}", a.lit_with_text);
     match a.advised.map(|i| &a.rungs[i]) {
         Some(r) => println!(
             "advice: {} ({} lighting evaluations per frame per vertex) keeps p95 under {} dE00 at every angle; per-pixel lighting costs {} evaluations per frame at {}x{}",

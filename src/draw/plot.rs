@@ -234,7 +234,7 @@ impl Plot {
         let mut s = String::new();
         let _ = write!(
             s,
-            r#"<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 {w} {h}" width="{w}" height="{h}" font-family="system-ui, sans-serif" font-size="12" role="img" aria-label="{}">"#,
+            r#"<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 {w} {h}" width="{w}" height="{h}" font-family="system-ui, sans-serif" font-size="12" pointer-events="none" role="img" aria-label="{}">"#,
             escape(&self.title)
         );
         let _ = write!(
@@ -243,7 +243,9 @@ impl Plot {
             hex(BACKGROUND)
         );
         // Click bands, under everything else: each pick owns the x range halfway to its
-        // neighbours, and its markers drawn later pick it as well.
+        // neighbours, and its markers drawn later pick it as well. Nothing else takes the
+        // pointer (the root's `pointer-events="none"`), so a grid line or a label over a band
+        // never swallows its click.
         for (i, &x) in self.picks.iter().enumerate() {
             let here = f.px(x);
             let left = if i > 0 {
@@ -254,7 +256,7 @@ impl Plot {
             let right = self.picks.get(i + 1).map_or(r, |n| (f.px(*n) + here) / 2.0);
             let _ = write!(
                 s,
-                r#"<rect data-pick="{i}" x="{:.1}" y="{t}" width="{:.1}" height="{:.1}" fill="transparent"/>"#,
+                r#"<rect data-pick="{i}" x="{:.1}" y="{t}" width="{:.1}" height="{:.1}" fill="transparent" pointer-events="all"/>"#,
                 left.min(right),
                 (right - left).abs().max(1.0),
                 b - t
@@ -353,7 +355,9 @@ impl Plot {
                             .picks
                             .iter()
                             .position(|&p| p == x)
-                            .map_or(String::new(), |i| format!(r#" data-pick="{i}""#));
+                            .map_or(String::new(), |i| {
+                                format!(r#" data-pick="{i}" pointer-events="all""#)
+                            });
                         let _ = write!(
                             s,
                             r#"<circle{pick} cx="{:.1}" cy="{:.1}" r="4" fill="{c}"/>"#,

@@ -17,7 +17,7 @@ pub use raster::{
     draw_triangle, fill, sample_triangle, snap_xy, Batch, Coverage, Cull, FragmentShader, Pixel,
     RasterVertex, Target, SUBPIXEL_BITS,
 };
-pub use render::{file_material, PanelStats, PrepareError, Renderer};
+pub use render::{file_material, FileMaterialCounts, PanelStats, PrepareError, Renderer};
 pub use scanline::{fill_polygon, sample_polygon};
 pub use surface::{linear_luminance, SurfacePoint};
 pub use vertex_stage::{project, StageKey, VertexStage};

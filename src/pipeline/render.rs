@@ -121,6 +121,21 @@ impl Renderer {
         self.geometry = None;
     }
 
+    /// The mesh file's materials that light `scene` (by model: Blinn-Phong, from OBJ
+    /// libraries, and metallic-roughness), none when the scene's own material does; after
+    /// [`Renderer::prepare`] of `scene`.
+    pub fn file_materials_lighting(&self, scene: &Scene) -> FileMaterialCounts {
+        let mut counts = FileMaterialCounts::default();
+        for fm in active_file_materials(&self.geometry, &self.imported, scene) {
+            match fm.reflectance {
+                Reflectance::Specular { .. } => counts.blinn_phong += 1,
+                Reflectance::MetallicRoughness => counts.metallic_roughness += 1,
+                Reflectance::Viewer => {}
+            }
+        }
+        counts
+    }
+
     /// The mesh supplied by [`Renderer::set_file_mesh`], if any.
     pub fn file_mesh(&self) -> Option<&Mesh> {
         self.imported.as_ref()
@@ -229,25 +244,19 @@ impl Renderer {
                 rotation,
             );
         }
+        // Exposure scales every light alike (2^EV, exact for whole stops).
+        let exposure = libm::exp2f(scene.exposure_ev);
         let lighting = Lighting::new(
             &scene.lights,
             scene.ambient_light,
             &scene.material,
             scene.model,
             &camera,
-        );
+        )
+        .exposed(exposure);
         self.lightings.clear();
         self.double_sided.clear();
-        let file_materials = match (&self.geometry, &self.imported) {
-            (Some(g), Some(m))
-                if scene.material_source == MaterialSource::File
-                    && !g.vb.face_material.is_empty()
-                    && matches!(scene.mesh, MeshSource::File { .. }) =>
-            {
-                m.materials.as_slice()
-            }
-            _ => &[],
-        };
+        let file_materials = active_file_materials(&self.geometry, &self.imported, scene);
         for fm in file_materials {
             let (material, model) = file_material(fm, &scene.material, scene.model);
             let lit = Lighting::new(
@@ -256,7 +265,8 @@ impl Renderer {
                 &material,
                 model,
                 &camera,
-            );
+            )
+            .exposed(exposure);
             self.lightings.push(match fm.reflectance {
                 Reflectance::Specular { color, .. } => lit.with_specular_color(color),
                 _ => lit,
@@ -843,6 +853,41 @@ struct Frame {
     height: usize,
     cull: Cull,
     persp: bool,
+}
+
+/// How many of a mesh file's materials light a scene, by the model each is lit with.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Serialize)]
+pub struct FileMaterialCounts {
+    /// Blinn-Phong materials (an OBJ library's `Kd`/`Ks`/`Ns`).
+    pub blinn_phong: u32,
+    /// Metallic-roughness materials (glTF, or an OBJ library's `Pr`/`Pm`).
+    pub metallic_roughness: u32,
+}
+
+impl FileMaterialCounts {
+    /// No file material lights the scene.
+    pub fn is_empty(&self) -> bool {
+        self.blinn_phong + self.metallic_roughness == 0
+    }
+}
+
+/// The mesh file's materials when they light `scene`: its source is a file, it asks for the
+/// file's materials, and the prepared file has some.
+fn active_file_materials<'a>(
+    geometry: &Option<Geometry>,
+    imported: &'a Option<Mesh>,
+    scene: &Scene,
+) -> &'a [FileMaterial] {
+    match (geometry, imported) {
+        (Some(g), Some(m))
+            if scene.material_source == MaterialSource::File
+                && !g.vb.face_material.is_empty()
+                && matches!(scene.mesh, MeshSource::File { .. }) =>
+        {
+            m.materials.as_slice()
+        }
+        _ => &[],
+    }
 }
 
 /// A file's material as the scene's material type and the model that lights it (colours

@@ -21,6 +21,11 @@ use schemars::JsonSchema;
 use serde::{Deserialize, Serialize};
 use std::fmt;
 
+/// The lowest exposure, in stops.
+pub const MIN_EXPOSURE_EV: f32 = -10.0;
+/// The highest exposure, in stops.
+pub const MAX_EXPOSURE_EV: f32 = 10.0;
+
 /// The scene format version written by this build (see [`FORMAT`](crate::scene::FORMAT)).
 pub const SCENE_VERSION: u32 = formats::FORMAT;
 
@@ -49,6 +54,11 @@ pub struct Scene {
     pub lights: Vec<Light>,
     /// Ambient light colour, sRGB `#rrggbb`.
     pub ambient_light: Rgb,
+    /// Exposure in stops: every light (and the emission) is scaled by 2^`exposure_ev` before
+    /// the sRGB encoding, so bright highlights can be brought below clipping. 0 keeps the
+    /// stated light units (a white Lambertian surface facing a unit light at 1.0).
+    #[schemars(range(min = MIN_EXPOSURE_EV, max = MAX_EXPOSURE_EV))]
+    pub exposure_ev: f32,
     /// The surface.
     pub material: Material,
     /// A mesh file's own materials (`file`, where it has any) or this scene's (`scene`).
@@ -106,6 +116,7 @@ impl Default for Scene {
                 },
             ],
             ambient_light: Rgb::hex("#ffffff"),
+            exposure_ev: 0.0,
             material: Material::default(),
             material_source: MaterialSource::File,
             vertex_colors: true,
@@ -309,6 +320,12 @@ impl Scene {
             )));
         }
         self.camera.validate().map_err(at("camera"))?;
+        in_range(
+            ("exposure", "exposure_ev"),
+            self.exposure_ev,
+            MIN_EXPOSURE_EV,
+            MAX_EXPOSURE_EV,
+        )?;
         for (i, v) in self.rotation.iter().enumerate() {
             finite(RotationField(i), *v)?;
         }
@@ -413,6 +430,7 @@ impl Scene {
             rotation,
             lights,
             ambient_light,
+            exposure_ev,
             material,
             material_source,
             vertex_colors,
@@ -433,6 +451,7 @@ impl Scene {
             && *rotation == other.rotation
             && *lights == other.lights
             && *ambient_light == other.ambient_light
+            && *exposure_ev == other.exposure_ev
             && *material == other.material
             && *vertex_colors == other.vertex_colors
             && *material_source == other.material_source

@@ -139,6 +139,12 @@ const FORMAT_1_LATER_FIELDS: &str = r##"{
     }
 }"##;
 
+/// Fields added to the scene after format 2's table was frozen, with the values that keep
+/// both earlier formats' records drawing as they did: no exposure change.
+const FORMAT_2_LATER_FIELDS: &str = r##"{
+    "exposure_ev": 0.0
+}"##;
+
 /// Format 2: the glTF metallic-roughness model (material `roughness`, `metallic`; model
 /// `metallic_roughness`); vertex colours and materials of mesh files are used; computed normals join
 /// corners at the same position; glTF files without normals are shaded flat, as the glTF
@@ -242,9 +248,14 @@ pub fn defaults(n: u32) -> Option<Value> {
         1 => {
             let mut table = parse(FORMAT_1)?;
             merge(&mut table, parse(FORMAT_1_LATER_FIELDS)?);
+            merge(&mut table, parse(FORMAT_2_LATER_FIELDS)?);
             Some(table)
         }
-        2 => parse(FORMAT_2),
+        2 => {
+            let mut table = parse(FORMAT_2)?;
+            merge(&mut table, parse(FORMAT_2_LATER_FIELDS)?);
+            Some(table)
+        }
         _ => None,
     }
 }

@@ -9,7 +9,9 @@ pub(crate) mod presets;
 pub(crate) mod schema;
 pub(crate) mod settings;
 
-pub use definition::{axis_angle, Scene, SceneError, ValidScene, SCENE_VERSION};
+pub use definition::{
+    axis_angle, Scene, SceneError, ValidScene, MAX_EXPOSURE_EV, MIN_EXPOSURE_EV, SCENE_VERSION,
+};
 pub use formats::{revision_notice, FORMAT, RENDERER_REVISION};
 pub use link::{decode, encode, LinkError};
 pub use presets::{preset, presets, Preset};

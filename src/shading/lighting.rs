@@ -433,6 +433,19 @@ impl Lighting {
         }
     }
 
+    /// The same lighting exposed by `scale` (linear, 2^EV): every light, the ambient light
+    /// and the emission are scaled, which scales every output alike. `scale` 1 changes
+    /// nothing, bit for bit.
+    pub fn exposed(mut self, scale: f32) -> Lighting {
+        for l in &mut self.lights {
+            l.color *= scale;
+        }
+        self.constant *= scale;
+        self.ambient_base *= scale;
+        self.emissive *= scale;
+        self
+    }
+
     /// The same lighting with a coloured highlight: `color` (linear) replaces the material's
     /// specular colour in the Phong models (an OBJ material's `Ks`; vertex colours do not tint
     /// it). The metallic-roughness model has no such colour and is returned unchanged.

@@ -30,7 +30,8 @@ function showAdvice() {
     answer.textContent =
       `Per-vertex lighting needs ${r.label}: ${fmt(r.vertices)} lit vertices and ${fmt(r.triangles)} triangles per frame ` +
       `keep the 95th-percentile difference under ${a.settings.threshold} dE00 at all ${a.settings.steps} angles (worst ${r.worst_p95.toFixed(2)}). ` +
-      `Per-pixel lighting at this view costs ${fmt(a.current_pixels)} lighting evaluations per frame.`;
+      `Per-pixel lighting at this view costs ${fmt(a.current_pixels)} lighting evaluations per frame. ` +
+      `${a.lit_with_text}.`;
   } else {
     answer.textContent = a.note ? `No level yet: ${a.note}.` : "Measuring…";
   }

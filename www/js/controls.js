@@ -26,6 +26,7 @@ export function buildControls() {
   const models = new Map(v.models.map((m) => [m.id, m.label]));
   fillSelect($("model"), v.models.map((m) => m.id), (id) => models.get(id));
   $("roughness").min = String(v.min_roughness);
+  [$("exposure").min, $("exposure").max] = v.exposure_ev.map(String);
   $("subdiv-levels").max = String(v.subdivision_max_levels);
   $("sweep-steps").max = String(Math.min(720, v.max_sweep_steps));
 }
@@ -145,6 +146,8 @@ export function syncControls() {
     $("light-el-out").textContent = `${Math.round(light.elevation_deg)}°`;
     $("light-color").value = light.color;
   }
+  $("exposure").value = s.exposure_ev;
+  $("exposure-out").textContent = `${s.exposure_ev > 0 ? "+" : s.exposure_ev < 0 ? "−" : ""}${Math.abs(s.exposure_ev)} stops (× ${Math.pow(2, s.exposure_ev).toPrecision(3).replace(/\.?0+$/, "")})`;
   $("projection").value = s.camera.projection;
   $("roll").value = s.camera.roll_deg;
   $("roll-out").textContent = `${Math.round(s.camera.roll_deg)}°`;
@@ -205,6 +208,7 @@ export function bindControls() {
   on("light-az", "input", (s) => { s.lights[0].azimuth_deg = +$("light-az").value; });
   on("light-el", "input", (s) => { s.lights[0].elevation_deg = +$("light-el").value; });
   on("light-color", "input", (s) => { s.lights[0].color = $("light-color").value; });
+  on("exposure", "input", (s) => { s.exposure_ev = +$("exposure").value; });
   on("projection", "change", (s) => { s.camera.projection = $("projection").value; });
   on("roll", "input", (s) => { s.camera.roll_deg = +$("roll").value; });
   on("cull", "change", (s) => { s.cull_back_faces = $("cull").checked; });

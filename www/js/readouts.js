@@ -27,6 +27,7 @@ export function showMetrics() {
   term(dl, "Silhouette mismatch", `${fmt(m.silhouette_mismatch_pixels)} pixels`, "silhouette");
   term(dl, "Peak luminance Y", `${a} ${m.peak_luminance[0].toFixed(3)} · ${b} ${m.peak_luminance[1].toFixed(3)} (ratio ${m.peak_ratio.toFixed(2)})`, "peak");
   term(dl, "Lighting evaluations", `${fmt(r.lighting.per_vertex)} per-vertex · ${fmt(r.lighting.per_pixel)} per-pixel`, "cost");
+  term(dl, "Lit with", app.viewer.litWith(), "lit");
 }
 
 export function drawLegend() {
