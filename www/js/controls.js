@@ -62,14 +62,14 @@ function syncFileMaterials(s) {
     const terms = m.model === "metallic_roughness"
       ? `roughness ${m.roughness.toFixed(2)}, metallic ${m.metallic.toFixed(2)}`
       : `shininess ${Math.round(m.shininess)}`;
-    return `${m.name}: ${MODEL_WORDS[m.model]}, ${m.base_color}, ${terms} (${m.faces} faces)`;
+    return [`${m.name} (${MODEL_WORDS[m.model]})`, `${m.name}: ${MODEL_WORDS[m.model]}, base ${m.base_color}, ${terms}, ${m.faces} faces`];
   };
-  const wanted = own.map((m) => describe(m)).join("\n");
+  const wanted = own.map((m) => describe(m)[1]).join("\n");
   if (select.dataset.listed !== wanted) {
     select.replaceChildren(...list.map((m, i) => [m, i]).filter(([m]) => m.model !== "page").map(([m, i]) => {
       const o = document.createElement("option");
       o.value = String(i);
-      o.textContent = describe(m);
+      [o.textContent, o.title] = describe(m);
       return o;
     }));
     select.dataset.listed = wanted;
