@@ -72,3 +72,57 @@ fn table_encoder_agrees_with_the_reference() {
     assert_eq!(encode_srgb8(-1.0), 0);
     assert_eq!(encode_srgb8(7.0), 255);
 }
+
+#[test]
+fn four_lane_encoder_agrees_with_the_reference() {
+    // The four-lane encoder (SrgbEncoder::encode4 / pack4) must give, lane by lane, the
+    // reference's byte (IEC 61966-2-1 through encode_srgb8_reference): every f32 within 64
+    // ulps of each byte boundary, a stride through [0, 1], and the values outside it.
+    use twinshade::shading::{SrgbEncoder, F4};
+    let enc = SrgbEncoder::new();
+    let mut values: Vec<f32> = Vec::new();
+    let one = 1.0f32.to_bits();
+    let mut bits = 0u32;
+    while bits <= one {
+        values.push(f32::from_bits(bits));
+        bits += 1009;
+    }
+    for b in 1..=255u32 {
+        let t = srgb_to_linear_f64((f64::from(b) - 0.5) / 255.0) as f32;
+        for d in -64i32..=64 {
+            values.push(f32::from_bits((t.to_bits() as i32 + d) as u32));
+        }
+    }
+    values.extend([
+        f32::NAN,
+        -f32::NAN,
+        f32::INFINITY,
+        f32::NEG_INFINITY,
+        -0.0,
+        0.0,
+        -1e-30,
+        f32::MIN_POSITIVE,
+        1e-45,
+        0.9999999,
+        1.0,
+        1.0000001,
+        7.0,
+        f32::MAX,
+    ]);
+    while values.len() % 12 != 0 {
+        values.push(0.5);
+    }
+    for c in values.chunks_exact(12) {
+        let lane = |o: usize| F4::new([c[o], c[o + 1], c[o + 2], c[o + 3]]);
+        let px = enc.pack4(lane(0), lane(4), lane(8));
+        for k in 0..4 {
+            let want = enc.pack(c[k], c[4 + k], c[8 + k]);
+            let reference = u32::from(encode_srgb8_reference(c[k]))
+                | u32::from(encode_srgb8_reference(c[4 + k])) << 8
+                | u32::from(encode_srgb8_reference(c[8 + k])) << 16
+                | 0xff00_0000;
+            assert_eq!(px[k], want, "lane {k} of {c:?}");
+            assert_eq!(px[k], reference, "lane {k} of {c:?}");
+        }
+    }
+}

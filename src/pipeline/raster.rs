@@ -12,6 +12,8 @@
 //! sum(l_i / w_i)); in affine mode they carry a directly. Everything per fragment (the divide,
 //! the varyings, the shading) happens only after the depth test passes.
 
+use crate::shading::lanes::F4;
+
 /// Sub-pixel bits of the fixed-point screen coordinates.
 pub const SUBPIXEL_BITS: u32 = 8;
 const ONE: i64 = 1 << SUBPIXEL_BITS;
@@ -95,36 +97,55 @@ pub trait FragmentShader<const N: usize> {
     /// Shades one fragment that passed the depth test.
     fn shade(&self, var: &[f32; N]) -> Self::Out;
 
-    /// Shades four fragments; must give exactly what four [`FragmentShader::shade`] calls give.
+    /// Shades four fragments whose varyings come in lanes (`var[k]` holds varying `k` of the
+    /// four); must give exactly what four [`FragmentShader::shade`] calls give.
     #[inline]
-    fn shade4(&self, var: &[[f32; N]; 4]) -> [Self::Out; 4] {
-        [
-            self.shade(&var[0]),
-            self.shade(&var[1]),
-            self.shade(&var[2]),
-            self.shade(&var[3]),
-        ]
+    fn shade4(&self, var: &[F4; N]) -> [Self::Out; 4] {
+        let lanes = var.map(F4::to_array);
+        [0, 1, 2, 3].map(|j| self.shade(&std::array::from_fn(|k| lanes[k][j])))
     }
 }
 
-/// Fragments that passed the depth test and wait to be shaded four at a time.
+/// Fragments that passed the depth test and wait to be shaded four at a time, kept in lanes
+/// (structure of arrays): varying `k` of waiting fragment `j` is `var[k][j]`. Four more can
+/// always be appended (at most three wait between shadings).
 pub struct Batch<const N: usize> {
-    index: [usize; 4],
-    var: [[f32; N]; 4],
+    index: [usize; 8],
+    var: [[f32; 8]; N],
     len: usize,
 }
 
 impl<const N: usize> Default for Batch<N> {
     fn default() -> Self {
         Batch {
-            index: [0; 4],
-            var: [[0.0; N]; 4],
+            index: [0; 8],
+            var: [[0.0; 8]; N],
             len: 0,
         }
     }
 }
 
 impl<const N: usize> Batch<N> {
+    /// Shades the first four waiting fragments and moves the rest to the front.
+    #[inline(always)]
+    fn shade_first4<S: FragmentShader<N>>(&mut self, target: &mut Target<'_>, shader: &S) {
+        let lanes: [F4; N] = std::array::from_fn(|k| F4::load(&self.var[k][..4]));
+        let out = shader.shade4(&lanes);
+        for (k, px) in out.into_iter().enumerate() {
+            px.store(target, self.index[k]);
+        }
+        // Up to three wait behind them: move the upper half down (fixed-size copies, no
+        // library call).
+        for v in &mut self.var {
+            let upper = F4::load(&v[4..8]);
+            upper.store(&mut v[..4]);
+        }
+        let [_, _, _, _, a, b, c, d] = self.index;
+        self.index[..4].copy_from_slice(&[a, b, c, d]);
+        self.len -= 4;
+    }
+
+    /// Adds one fragment (pixel `i`, varyings `var`).
     #[inline(always)]
     pub(crate) fn push<S: FragmentShader<N>>(
         &mut self,
@@ -134,21 +155,57 @@ impl<const N: usize> Batch<N> {
         shader: &S,
     ) {
         self.index[self.len] = i;
-        self.var[self.len] = var;
+        for (slot, v) in self.var.iter_mut().zip(var) {
+            slot[self.len] = v;
+        }
         self.len += 1;
         if self.len == 4 {
-            let out = shader.shade4(&self.var);
-            for (k, px) in out.into_iter().enumerate() {
-                px.store(target, self.index[k]);
+            self.shade_first4(target, shader);
+        }
+    }
+
+    /// Adds the fragments of four neighbouring pixels `i..i + 4` whose bit is set in `live`
+    /// (lane 0 in bit 0), with their varyings in lanes.
+    #[inline(always)]
+    pub(crate) fn push4<S: FragmentShader<N>>(
+        &mut self,
+        target: &mut Target<'_>,
+        i: usize,
+        live: u32,
+        var: &[F4; N],
+        shader: &S,
+    ) {
+        let len = self.len;
+        if live & (live + 1) == 0 {
+            // Lanes 0..n live (the common case: a run, or its end): append all four and keep n.
+            for (slot, v) in self.var.iter_mut().zip(var) {
+                v.store(&mut slot[len..len + 4]);
             }
-            self.len = 0;
+            for (j, slot) in self.index[len..len + 4].iter_mut().enumerate() {
+                *slot = i + j;
+            }
+            self.len += live.count_ones() as usize;
+        } else {
+            let lanes = var.map(F4::to_array);
+            for j in (0..4).filter(|j| live >> j & 1 == 1) {
+                let at = self.len;
+                self.index[at] = i + j;
+                for (slot, v) in self.var.iter_mut().zip(&lanes) {
+                    slot[at] = v[j];
+                }
+                self.len += 1;
+            }
+        }
+        if self.len >= 4 {
+            self.shade_first4(target, shader);
         }
     }
 
     /// Shades what is left, one by one, in the order the fragments arrived.
     pub fn flush<S: FragmentShader<N>>(&mut self, target: &mut Target<'_>, shader: &S) {
-        for k in 0..self.len {
-            shader.shade(&self.var[k]).store(target, self.index[k]);
+        for j in 0..self.len {
+            let var = std::array::from_fn(|k| self.var[k][j]);
+            shader.shade(&var).store(target, self.index[j]);
         }
         self.len = 0;
     }
@@ -324,7 +381,110 @@ pub fn fill<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
         e[2].0 * cx + e[2].1 * cy + e[2].2,
     ];
 
-    // Attribute planes, in pixel units relative to vertex 0 (snapped positions).
+    if px1 - px0 < 3 {
+        // Narrow triangles (a few pixels across, the common case of dense meshes): one
+        // pixel at a time, with the same per-pixel formulas as the four-lane runs below.
+        let (z, q, var) = attribute_planes(cov, [v0, v1, v2]);
+        return fill_narrow::<N, PERSP, S>(
+            target,
+            [row, step_x, step_y],
+            (px0, px1, py0, py1),
+            (z, q, &var),
+            shader,
+            batch,
+        );
+    }
+
+    // Rows above the first covered one, skipped before any plane is set up: a triangle
+    // whose rectangle holds no covered centre costs only this.
+    let mut py_first = py0;
+    while covered_run(row, step_x, px0, px1).is_none() {
+        if py_first == py1 {
+            return 0;
+        }
+        py_first += 1;
+        row[0] += step_y[0];
+        row[1] += step_y[1];
+        row[2] += step_y[2];
+    }
+    let (z, q, var) = attribute_planes(cov, [v0, v1, v2]);
+
+    let mut shaded = 0u32;
+    let lane_offset = F4::new([0.0, 1.0, 2.0, 3.0]);
+    for py in py_first..=py1 {
+        let this_row = row;
+        row[0] += step_y[0];
+        row[1] += step_y[1];
+        row[2] += step_y[2];
+        // The row's covered run, from the edge functions in integers: exactly the centres
+        // where all three are >= 0 (the triangle is convex, so they form one run).
+        let Some((xs, xe)) = covered_run(this_row, step_x, px0, px1) else {
+            continue;
+        };
+        let yf = py as f32;
+        // Row values of the planes; each pixel then adds dx * x (no running sums, so the
+        // value at a pixel does not depend on where the row started).
+        let z_row = z.origin + z.dy * yf;
+        let q_row = q.origin + q.dy * yf;
+        let var_row: [f32; N] = std::array::from_fn(|k| var[k].origin + var[k].dy * yf);
+        let base = py as usize * target.width;
+        // Four pixels at a time: depth, 1/w and the varyings in lanes, each lane computing
+        // exactly what the one-pixel formula gives at its x.
+        let mut px = xs;
+        while px <= xe {
+            let i = base + px as usize;
+            // px < 2^24 (a panel side is far smaller), so the lane offsets add exactly.
+            let xf = F4::splat(px as f32) + lane_offset;
+            let zv = xf * z.dx + z_row;
+            let live = if xe - px >= 3 {
+                let old = F4::load(&target.depth[i..i + 4]);
+                let pass = zv.lt(old);
+                F4::select(pass, zv, old).store(&mut target.depth[i..i + 4]);
+                pass.bits()
+            } else {
+                let zs = zv.to_array();
+                let mut live = 0;
+                for (j, &zj) in zs.iter().enumerate().take((xe - px + 1) as usize) {
+                    if zj < target.depth[i + j] {
+                        target.depth[i + j] = zj;
+                        live |= 1 << j;
+                    }
+                }
+                live
+            };
+            if live != 0 {
+                let lanes: [F4; N] = if PERSP {
+                    let wv = F4::splat(1.0) / (xf * q.dx + q_row);
+                    std::array::from_fn(|k| (xf * var[k].dx + var_row[k]) * wv)
+                } else {
+                    std::array::from_fn(|k| xf * var[k].dx + var_row[k])
+                };
+                if S::BATCH {
+                    batch.push4(target, i, live, &lanes, shader);
+                } else {
+                    let l = lanes.map(F4::to_array);
+                    for j in (0..4).filter(|j| live >> j & 1 == 1) {
+                        let frag = std::array::from_fn(|k| l[k][j]);
+                        shader.shade(&frag).store(target, i + j);
+                    }
+                }
+                shaded += live.count_ones();
+            }
+            px += 4;
+        }
+    }
+    shaded
+}
+
+/// The depth, 1/w and varying planes of a set-up triangle whose corners in drawing order are
+/// `v`, in pixel units relative to its first snapped corner.
+#[inline(always)]
+fn attribute_planes<const N: usize>(
+    cov: &Coverage,
+    v: [&RasterVertex<N>; 3],
+) -> (Plane, Plane, [Plane; N]) {
+    let [x0, x1, x2] = cov.x;
+    let [y0, y1, y2] = cov.y;
     let s = 1.0 / ONE as f32;
     let o = (x0 as f32 * s, y0 as f32 * s);
     let d = [
@@ -334,27 +494,42 @@ pub fn fill<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
         (y2 - y0) as f32 * s,
     ];
     let inv_area = 1.0 / (d[0] * d[3] - d[1] * d[2]);
-    let z = Plane::new([v0.z, v1.z, v2.z], d, inv_area, o);
-    let q = Plane::new([v0.inv_w, v1.inv_w, v2.inv_w], d, inv_area, o);
+    let z = Plane::new([v[0].z, v[1].z, v[2].z], d, inv_area, o);
+    let q = Plane::new([v[0].inv_w, v[1].inv_w, v[2].inv_w], d, inv_area, o);
     let mut var = [Plane::default(); N];
     for (k, p) in var.iter_mut().enumerate() {
-        *p = Plane::new([v0.var[k], v1.var[k], v2.var[k]], d, inv_area, o);
+        *p = Plane::new([v[0].var[k], v[1].var[k], v[2].var[k]], d, inv_area, o);
     }
+    (z, q, var)
+}
 
+/// [`fill`] for a triangle at most three pixels wide: every pixel of its rectangle tested
+/// alone. `edges` holds the edge values at the first pixel of the first row and their steps
+/// per pixel and per row; `rect` the pixel columns and rows to visit.
+#[inline(always)]
+fn fill_narrow<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
+    target: &mut Target<'_>,
+    edges: [[i64; 3]; 3],
+    rect: (i64, i64, i64, i64),
+    planes: (Plane, Plane, &[Plane; N]),
+    shader: &S,
+    batch: &mut Batch<N>,
+) -> u32 {
+    let [mut row, step_x, step_y] = edges;
+    let (px0, px1, py0, py1) = rect;
+    let (z, q, var) = planes;
     let mut shaded = 0u32;
     let mut frag = [0.0f32; N];
     let mut var_row = [0.0f32; N];
     for py in py0..=py1 {
         let yf = py as f32;
-        // Row values of the planes; each pixel then adds dx * x (no running sums, so the
-        // value at a pixel does not depend on where the row started).
         let z_row = z.origin + z.dy * yf;
         let q_row = q.origin + q.dy * yf;
         for k in 0..N {
             var_row[k] = var[k].origin + var[k].dy * yf;
         }
-        let mut ev = row;
         let base = py as usize * target.width;
+        let mut ev = row;
         let mut entered = false;
         for px in px0..=px1 {
             if (ev[0] | ev[1] | ev[2]) >= 0 {
@@ -393,6 +568,32 @@ pub fn fill<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
         row[2] += step_y[2];
     }
     shaded
+}
+
+/// The pixels `xs..=xe` of a row (within `px0..=px1`) where no edge function is negative,
+/// given their values `row` at `px0` and their steps per pixel `step`; `None` when there are
+/// none. Integer arithmetic, so the run is exactly the set a per-pixel test finds.
+#[inline(always)]
+fn covered_run(row: [i64; 3], step: [i64; 3], px0: i64, px1: i64) -> Option<(i64, i64)> {
+    let (mut lo, mut hi) = (0i64, px1 - px0);
+    for e in 0..3 {
+        let (r, s) = (row[e], step[e]);
+        if s > 0 {
+            // Rising: from the first d with r + s d >= 0.
+            if r < 0 {
+                lo = lo.max((-r + s - 1) / s);
+            }
+        } else if s < 0 {
+            // Falling: up to the last d with r + s d >= 0.
+            if r < 0 {
+                return None;
+            }
+            hi = hi.min(r / -s);
+        } else if r < 0 {
+            return None;
+        }
+    }
+    (lo <= hi).then_some((px0 + lo, px0 + hi))
 }
 
 /// Depth, 1/w and varyings (as stored: times 1/w in perspective mode) of the triangle at the

@@ -28,11 +28,10 @@ impl FragmentShader<9> for Both<'_> {
     }
 
     #[inline(always)]
-    fn shade4(&self, v: &[[f32; 9]; 4]) -> [[u32; 2]; 4] {
-        let lanes = |k: usize| [v[k][3], v[k][4], v[k][5], v[k][6], v[k][7], v[k][8]];
-        let p = self.phong.shade4(&[lanes(0), lanes(1), lanes(2), lanes(3)]);
-        let g = |k: usize| self.phong.enc.pack(v[k][0], v[k][1], v[k][2]);
-        [[g(0), p[0]], [g(1), p[1]], [g(2), p[2]], [g(3), p[3]]]
+    fn shade4(&self, v: &[F4; 9]) -> [[u32; 2]; 4] {
+        let p = self.phong.shade4(&[v[3], v[4], v[5], v[6], v[7], v[8]]);
+        let g = self.phong.enc.pack4(v[0], v[1], v[2]);
+        [[g[0], p[0]], [g[1], p[1]], [g[2], p[2]], [g[3], p[3]]]
     }
 }
 
@@ -54,14 +53,12 @@ impl FragmentShader<12> for BothTinted<'_> {
     }
 
     #[inline(always)]
-    fn shade4(&self, v: &[[f32; 12]; 4]) -> [[u32; 2]; 4] {
-        let lanes = |k: usize| {
-            let x = &v[k];
-            [x[3], x[4], x[5], x[6], x[7], x[8], x[9], x[10], x[11]]
-        };
-        let p = self.phong.shade4(&[lanes(0), lanes(1), lanes(2), lanes(3)]);
-        let g = |k: usize| self.phong.enc.pack(v[k][0], v[k][1], v[k][2]);
-        [[g(0), p[0]], [g(1), p[1]], [g(2), p[2]], [g(3), p[3]]]
+    fn shade4(&self, v: &[F4; 12]) -> [[u32; 2]; 4] {
+        let p = self
+            .phong
+            .shade4(&[v[3], v[4], v[5], v[6], v[7], v[8], v[9], v[10], v[11]]);
+        let g = self.phong.enc.pack4(v[0], v[1], v[2]);
+        [[g[0], p[0]], [g[1], p[1]], [g[2], p[2]], [g[3], p[3]]]
     }
 }
 
@@ -87,19 +84,16 @@ impl FragmentShader<9> for PerPixelTinted<'_> {
     }
 
     #[inline(always)]
-    fn shade4(&self, v: &[[f32; 9]; 4]) -> [u32; 4] {
-        let lane = |j: usize| F4::new([v[0][j], v[1][j], v[2][j], v[3][j]]);
+    fn shade4(&self, v: &[F4; 9]) -> [u32; 4] {
         let vec = |j: usize| V4 {
-            x: lane(j),
-            y: lane(j + 1),
-            z: lane(j + 2),
+            x: v[j],
+            y: v[j + 1],
+            z: v[j + 2],
         };
         let c = self
             .lighting
             .shade4_tinted(vec(0).normalize_or_zero(), vec(3), vec(6));
-        let (r, g, b) = (c.x.to_array(), c.y.to_array(), c.z.to_array());
-        let px = |k: usize| self.enc.pack(r[k], g[k], b[k]);
-        [px(0), px(1), px(2), px(3)]
+        self.enc.pack4(c.x, c.y, c.z)
     }
 }
 
@@ -148,23 +142,20 @@ impl FragmentShader<6> for PerPixel<'_> {
     }
 
     #[inline(always)]
-    fn shade4(&self, v: &[[f32; 6]; 4]) -> [u32; 4] {
-        let lane = |j: usize| F4::new([v[0][j], v[1][j], v[2][j], v[3][j]]);
+    fn shade4(&self, v: &[F4; 6]) -> [u32; 4] {
         let n = V4 {
-            x: lane(0),
-            y: lane(1),
-            z: lane(2),
+            x: v[0],
+            y: v[1],
+            z: v[2],
         }
         .normalize_or_zero();
         let p = V4 {
-            x: lane(3),
-            y: lane(4),
-            z: lane(5),
+            x: v[3],
+            y: v[4],
+            z: v[5],
         };
         let c = self.lighting.shade4(n, p);
-        let (r, g, b) = (c.x.to_array(), c.y.to_array(), c.z.to_array());
-        let px = |k: usize| self.enc.pack(r[k], g[k], b[k]);
-        [px(0), px(1), px(2), px(3)]
+        self.enc.pack4(c.x, c.y, c.z)
     }
 }
 

@@ -9,6 +9,7 @@
 //! agrees with the reference on every f32 input by construction (a test checks all of them
 //! between 0 and 1).
 
+use crate::shading::lanes::{F4, I4};
 use std::sync::OnceLock;
 
 /// Decodes one sRGB-encoded component (0..=1) to linear light, in f64 (IEC 61966-2-1).
@@ -63,6 +64,9 @@ struct Thresholds {
     /// For each bucket of the linear range (by f32 bit pattern, see `bucket`), the byte
     /// of the bucket's lower end; one comparison with `next` then finishes the search.
     start: [u8; BUCKETS],
+    /// Per bucket, `next[start]` and `start` together: one load per value in the four-lane
+    /// encoder.
+    entry: [(f32, i32); BUCKETS],
 }
 
 /// Buckets: 256 per binade over the 12 binades [2^-12, 1), so each bucket spans at most
@@ -103,7 +107,16 @@ fn thresholds() -> &'static Thresholds {
         }
         let mut next = [f32::INFINITY; 256];
         next[..255].copy_from_slice(&t[1..]);
-        Thresholds { t, next, start }
+        let mut entry = [(0.0f32, 0i32); BUCKETS];
+        for (e, &b) in entry.iter_mut().zip(&start) {
+            *e = (next[b as usize], i32::from(b));
+        }
+        Thresholds {
+            t,
+            next,
+            start,
+            entry,
+        }
     })
 }
 
@@ -174,6 +187,40 @@ impl SrgbEncoder {
     #[inline(always)]
     pub fn encode(&self, l: f32) -> u8 {
         encode_with(self.th, l)
+    }
+
+    /// Encodes four values in lanes, exactly as four [`SrgbEncoder::encode`] calls: the
+    /// bucket from the bit pattern in integer lanes, one table load per lane, one compare.
+    #[inline(always)]
+    pub fn encode4(&self, l: F4) -> I4 {
+        // Buckets as `bucket` computes them for values in (0, 1); other lanes are replaced
+        // below, whatever bucket they read.
+        let idx = l
+            .to_bits()
+            .wrapping_sub(I4::splat(0x3980_0000))
+            .shift_right(15)
+            .clamp(0, BUCKETS as i32 - 1)
+            .to_array();
+        let e = idx.map(|i| self.th.entry[i as usize]);
+        let next = F4::new([e[0].0, e[1].0, e[2].0, e[3].0]);
+        let start = I4::new([e[0].1, e[1].1, e[2].1, e[3].1]);
+        // start + 1 where l >= next (the mask is -1 there).
+        let byte = start.wrapping_sub(l.ge(next).as_i4());
+        let inside = I4::select(l.gt(0.0), byte, I4::splat(0));
+        I4::select(l.ge(F4::splat(1.0)), I4::splat(255), inside)
+    }
+
+    /// Packs four linear RGB colours given in lanes, exactly as four [`SrgbEncoder::pack`]
+    /// calls.
+    #[inline(always)]
+    pub fn pack4(&self, r: F4, g: F4, b: F4) -> [u32; 4] {
+        let px = self
+            .encode4(r)
+            .bit_or(self.encode4(g).shift_left(8))
+            .bit_or(self.encode4(b).shift_left(16))
+            .bit_or(I4::splat(0xff00_0000u32 as i32))
+            .to_array();
+        [px[0] as u32, px[1] as u32, px[2] as u32, px[3] as u32]
     }
 
     /// Packs a linear RGB colour into an opaque RGBA8 pixel (R in the lowest byte).

@@ -11,7 +11,7 @@
 //! (callgrind, L5 800x600).
 
 use std::ops::{Add, Div, Mul, Sub};
-use wide::{f32x4, CmpGt};
+use wide::{f32x4, i32x4, CmpGe, CmpGt, CmpLt};
 
 /// Four f32 lanes (a `wide::f32x4`: SSE on x86-64, `simd128` on wasm32, plain arrays
 /// elsewhere; packed add, subtract, multiply, divide, square root and compare are IEEE
@@ -22,6 +22,80 @@ pub struct F4(f32x4);
 /// A lane mask from a comparison (all bits set where true).
 #[derive(Clone, Copy, Debug)]
 pub struct M4(f32x4);
+
+/// Four i32 lanes (a `wide::i32x4`), for bit-level work on [`F4`] values.
+#[derive(Clone, Copy, Debug, Default, PartialEq)]
+pub struct I4(i32x4);
+
+impl I4 {
+    /// The lanes `a`.
+    #[inline(always)]
+    pub fn new(a: [i32; 4]) -> I4 {
+        I4(i32x4::new(a))
+    }
+
+    /// All lanes `v`.
+    #[inline(always)]
+    pub fn splat(v: i32) -> I4 {
+        I4(i32x4::splat(v))
+    }
+
+    /// The four lanes.
+    #[inline(always)]
+    pub fn to_array(self) -> [i32; 4] {
+        self.0.to_array()
+    }
+
+    /// Lane-wise arithmetic shift right by `n`.
+    #[inline(always)]
+    pub fn shift_right(self, n: i32) -> I4 {
+        I4(self.0 >> n)
+    }
+
+    /// Lane-wise shift left by `n`.
+    #[inline(always)]
+    pub fn shift_left(self, n: i32) -> I4 {
+        I4(self.0 << n)
+    }
+
+    /// Lane-wise wrapping subtraction.
+    #[inline(always)]
+    pub fn wrapping_sub(self, o: I4) -> I4 {
+        I4(self.0 - o.0)
+    }
+
+    /// Lane-wise bitwise or.
+    #[inline(always)]
+    pub fn bit_or(self, o: I4) -> I4 {
+        I4(self.0 | o.0)
+    }
+
+    /// Lane-wise `self` clamped to `lo..=hi`.
+    #[inline(always)]
+    pub fn clamp(self, lo: i32, hi: i32) -> I4 {
+        I4(self.0.max(i32x4::splat(lo)).min(i32x4::splat(hi)))
+    }
+
+    /// Lane-wise `if mask { a } else { b }`.
+    #[inline(always)]
+    pub fn select(mask: M4, a: I4, b: I4) -> I4 {
+        I4(mask.as_i4().0.blend(a.0, b.0))
+    }
+}
+
+impl M4 {
+    /// The mask as integer lanes: -1 where true, 0 where false.
+    #[inline(always)]
+    pub fn as_i4(self) -> I4 {
+        I4(bytemuck::cast(self.0))
+    }
+
+    /// The mask as four bits, lane 0 in bit 0.
+    #[inline(always)]
+    pub fn bits(self) -> u32 {
+        self.0.move_mask() as u32
+    }
+}
 
 impl std::ops::BitAnd for M4 {
     type Output = M4;
@@ -96,6 +170,36 @@ impl F4 {
     #[inline(always)]
     pub fn gt(self, v: f32) -> M4 {
         M4(self.0.cmp_gt(f32x4::splat(v)))
+    }
+
+    /// The lanes' bit patterns (`f32::to_bits` as i32).
+    #[inline(always)]
+    pub fn to_bits(self) -> I4 {
+        I4(bytemuck::cast(self.0))
+    }
+
+    /// Lane-wise `self >= o` (false for NaN).
+    #[inline(always)]
+    pub fn ge(self, o: F4) -> M4 {
+        M4(self.0.cmp_ge(o.0))
+    }
+
+    /// Lane-wise `self < o` (false for NaN).
+    #[inline(always)]
+    pub fn lt(self, o: F4) -> M4 {
+        M4(self.0.cmp_lt(o.0))
+    }
+
+    /// The lanes from the first four values of `s` (which must hold at least four).
+    #[inline(always)]
+    pub fn load(s: &[f32]) -> F4 {
+        F4::new([s[0], s[1], s[2], s[3]])
+    }
+
+    /// Writes the lanes to the first four values of `s` (which must hold at least four).
+    #[inline(always)]
+    pub fn store(self, s: &mut [f32]) {
+        s[..4].copy_from_slice(&self.to_array());
     }
 
     /// Lane-wise "finite" (neither infinite nor NaN).

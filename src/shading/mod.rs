@@ -11,7 +11,7 @@ pub use color::{
     max_thresholds_per_bucket, parse_hex, srgb8_to_linear, srgb_to_linear, srgb_to_linear_f64,
     to_hex, Rgb, SrgbEncoder,
 };
-pub use lanes::{F4, M4, V4};
+pub use lanes::{F4, I4, M4, V4};
 pub use lighting::{
     blinn_exponent_for_roughness, ggx_lobe, roughness_for_blinn_exponent, schlick_weight,
     smith_visibility, specular_power, specular_power4, Finish, Light, LightKind, Lighting,
