@@ -645,3 +645,67 @@ fn material_options_change_the_scene_as_the_page_would() {
     assert!(err.contains("roughness"), "{err}");
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn sweeps_and_advice_on_several_threads_equal_one_thread() {
+    // Steps are independent and recorded in order, so the thread count cannot change a
+    // figure: the CSV, the summary and the advice are byte for byte those of one thread.
+    let dir = temp_dir("jobs");
+    std::fs::create_dir_all(&dir).expect("temp dir");
+    let d = dir.to_str().expect("utf-8").to_string();
+    let run = |args: &[&str]| {
+        let out = twinshade(args);
+        let err = String::from_utf8_lossy(&out.stderr).to_string();
+        assert!(out.status.success(), "{args:?}: {err}");
+        err
+    };
+    for jobs in ["1", "3"] {
+        let err = run(&[
+            "sweep",
+            "--preset",
+            "rolling-quads",
+            "--axis",
+            "roll",
+            "--steps",
+            "20",
+            "--size",
+            "160x120",
+            "--jobs",
+            jobs,
+            "--out",
+            &format!("{d}/roll{jobs}.csv"),
+            "--summary",
+            &format!("{d}/roll{jobs}.json"),
+        ]);
+        assert!(err.contains(&format!("on {jobs} thread")), "{err}");
+        run(&[
+            "sweep",
+            "--steps",
+            "40",
+            "--size",
+            "160x120",
+            "--jobs",
+            jobs,
+            "--out",
+            &format!("{d}/turn{jobs}.csv"),
+        ]);
+        run(&[
+            "advise",
+            "--steps",
+            "6",
+            "--size",
+            "120x90",
+            "--jobs",
+            jobs,
+            "--out",
+            &format!("{d}/advice{jobs}.json"),
+        ]);
+    }
+    for name in ["roll{}.csv", "roll{}.json", "turn{}.csv", "advice{}.json"] {
+        let read = |j: &str| std::fs::read(dir.join(name.replace("{}", j))).expect("output");
+        let (one, three) = (read("1"), read("3"));
+        assert!(!one.is_empty(), "{name}");
+        assert!(one == three, "{name} differs between 1 and 3 threads");
+    }
+    let _ = std::fs::remove_dir_all(&dir);
+}

@@ -15,7 +15,7 @@
 
 use crate::analysis::error::AnalysisError;
 use crate::analysis::report::LitWith;
-use crate::analysis::sweep::{Sweep, SweepAxis, SweepSettings};
+use crate::analysis::sweep::{StepMap, Sweep, SweepAxis, SweepSettings};
 use crate::analysis::workbench::Workbench;
 use crate::draw::plot::{Plot, Rule, Series, PANEL_COLORS};
 use crate::geometry::mesh::MAX_TRIANGLES;
@@ -306,6 +306,33 @@ impl Advisor {
     /// # Errors
     /// When the scene cannot be rendered (e.g. a mesh file that was not supplied).
     pub fn run_step(&mut self, bench: &mut Workbench) -> Result<bool, AnalysisError> {
+        self.advance(bench, None)
+    }
+
+    /// Runs to completion like [`Advisor::run`], each level's turntable measured through
+    /// `map` (see [`Sweep::run_with`]: steps spread over threads); the advice is the same.
+    ///
+    /// # Errors
+    /// As [`Advisor::run_step`].
+    pub fn run_with(
+        &mut self,
+        bench: &mut Workbench,
+        map: &mut StepMap<'_>,
+        mut progress: impl FnMut(u32, u32),
+    ) -> Result<(), AnalysisError> {
+        while self.advance(bench, Some(&mut *map))? {
+            progress(self.frames_done(), self.total_frames());
+        }
+        progress(self.total_frames(), self.total_frames());
+        Ok(())
+    }
+
+    /// One frame of the advice, or with `map` the whole turntable of the current level.
+    fn advance(
+        &mut self,
+        bench: &mut Workbench,
+        map: Option<&mut StepMap<'_>>,
+    ) -> Result<bool, AnalysisError> {
         if self.done {
             return Ok(false);
         }
@@ -338,7 +365,12 @@ impl Advisor {
         let Some(sweep) = self.sweep.as_mut() else {
             return Ok(false);
         };
-        sweep.run_step(bench)?;
+        match map {
+            Some(map) => sweep.run_with(bench, map, |_, _| {})?,
+            None => {
+                sweep.run_step(bench)?;
+            }
+        }
         if sweep.is_done() {
             let steps = sweep.steps();
             let n = steps.len().max(1) as f64;
@@ -353,7 +385,7 @@ impl Advisor {
                 mesh: c.scene.mesh.clone(),
                 subdivision: c.scene.subdivision,
                 vertices: steps.first().map_or(0, |s| s.lit_vertices),
-                triangles: bench.report().triangles,
+                triangles: sweep.triangles(),
                 worst_p95: worst.de00_p95,
                 worst_angle_deg: worst.angle_deg,
                 mean_p95: steps.iter().map(|s| s.de00_p95).sum::<f64>() / n,

@@ -19,7 +19,7 @@ pub use measure::{
 pub use report::{panel_labels, FrameReport, LightingCost, LitWith, Panel};
 pub use sheet::{metrics_lines, report_sheet, sheet, workbench_sheet, GAP, LABEL_STRIP};
 pub use sweep::{
-    peak_luminance, Sweep, SweepAxis, SweepMetric, SweepSettings, SweepStep, SweepSummary,
-    MAX_STEPS, PROBES,
+    peak_luminance, Measured, StepMap, Sweep, SweepAxis, SweepMetric, SweepSettings, SweepStep,
+    SweepSummary, MAX_STEPS, PROBES,
 };
 pub use workbench::Workbench;

@@ -126,12 +126,29 @@ pub struct SweepSummary {
     pub probes_tracked: u32,
 }
 
+/// Steps [`Sweep::run_with`] hands its measuring function at a time.
+const RUN_CHUNK: u32 = 16;
+
+/// Measures a range of a sweep's steps and returns them in step order (see
+/// [`Sweep::run_with`]): how a caller spreads steps over threads, each with its own
+/// workbench.
+pub type StepMap<'a> =
+    dyn FnMut(&Sweep, std::ops::Range<u32>) -> Vec<Result<Measured, AnalysisError>> + 'a;
+
+/// One step measured by [`Sweep::measure`], waiting for [`Sweep::record`].
+#[derive(Clone, Debug)]
+pub struct Measured {
+    step: SweepStep,
+    values: Vec<[f32; 2]>,
+    triangles: u64,
+}
+
 /// A sweep in progress: the base scene, the steps measured so far and the probes followed.
 pub struct Sweep {
     settings: SweepSettings,
     base: ValidScene,
-    scene: ValidScene,
     records: Vec<SweepStep>,
+    triangles: u64,
     points: Vec<SurfacePoint>,
     first: Vec<[f32; 2]>,
     lo: Vec<[f32; 2]>,
@@ -160,8 +177,8 @@ impl Sweep {
         Ok(Sweep {
             settings,
             base: scene.clone(),
-            scene: scene.clone(),
             records: Vec::with_capacity(settings.steps as usize),
+            triangles: 0,
             points: vec![],
             first: vec![],
             lo: vec![],
@@ -226,10 +243,108 @@ impl Sweep {
         if self.is_done() {
             return Ok(None);
         }
+        self.prepare(bench)?;
         let i = self.records.len() as u32;
-        Self::pose(&self.base, self.settings, i, &mut self.scene);
-        let report = *bench.render(&self.scene)?;
-        let mut rec = SweepStep {
+        // The probe values' buffer is kept between steps (no allocation per step).
+        let mut values = std::mem::take(&mut self.values);
+        let measured = self.measure_into(bench, i, &mut values);
+        let result = measured.map(|(rec, triangles)| self.record_values(rec, &values, triangles));
+        self.values = values;
+        result?;
+        Ok(self.records.last())
+    }
+
+    /// Finds the probes a roll sweep follows (on the surface seen at step 0), once; nothing
+    /// for a turntable. [`Sweep::run_step`] calls it; call it before [`Sweep::measure`].
+    ///
+    /// # Errors
+    /// When the scene cannot be rendered.
+    pub fn prepare(&mut self, bench: &mut Workbench) -> Result<(), AnalysisError> {
+        if self.settings.axis == SweepAxis::Roll
+            && self.records.is_empty()
+            && self.points.is_empty()
+        {
+            let mut first = self.base.clone();
+            Self::pose(&self.base, self.settings, 0, &mut first);
+            self.points = bench.surface_points(&first, PROBES)?;
+        }
+        Ok(())
+    }
+
+    /// Renders and measures step `i` with `bench`, without recording it: steps are
+    /// independent, so any number of workbenches (on any threads) may measure them, and
+    /// [`Sweep::record`] then takes them in step order. The figures do not depend on which
+    /// workbench measured a step.
+    ///
+    /// # Errors
+    /// When the scene cannot be rendered.
+    pub fn measure(&self, bench: &mut Workbench, i: u32) -> Result<Measured, AnalysisError> {
+        let mut values = Vec::new();
+        let (step, triangles) = self.measure_into(bench, i, &mut values)?;
+        Ok(Measured {
+            step,
+            values,
+            triangles,
+        })
+    }
+
+    /// Records the next step measured by [`Sweep::measure`] (steps must come in order).
+    ///
+    /// # Errors
+    /// When `m` is not the next step.
+    pub fn record(&mut self, m: Measured) -> Result<(), AnalysisError> {
+        if m.step.step != self.records.len() as u32 {
+            return Err(AnalysisError::Settings(format!(
+                "sweep step {} recorded out of order (expected {})",
+                m.step.step,
+                self.records.len()
+            )));
+        }
+        self.record_values(m.step, &m.values, m.triangles);
+        Ok(())
+    }
+
+    /// Runs every remaining step through `map`, which measures a range of steps (with
+    /// [`Sweep::measure`], on as many workbenches and threads as it likes) and returns them in
+    /// step order; `progress(done, total)` is called after each range. The result equals
+    /// [`Sweep::run`]'s, step for step.
+    ///
+    /// # Errors
+    /// The first step that could not be measured.
+    pub fn run_with(
+        &mut self,
+        bench: &mut Workbench,
+        map: &mut StepMap<'_>,
+        mut progress: impl FnMut(u32, u32),
+    ) -> Result<(), AnalysisError> {
+        self.prepare(bench)?;
+        while !self.is_done() {
+            let from = self.records.len() as u32;
+            let to = (from + RUN_CHUNK).min(self.settings.steps);
+            for m in map(self, from..to) {
+                self.record(m?)?;
+            }
+            progress(self.records.len() as u32, self.settings.steps);
+        }
+        Ok(())
+    }
+
+    /// Triangles drawn per panel at the last step recorded.
+    pub fn triangles(&self) -> u64 {
+        self.triangles
+    }
+
+    /// Renders step `i` and measures it; the probe values land in `values`.
+    fn measure_into(
+        &self,
+        bench: &mut Workbench,
+        i: u32,
+        values: &mut Vec<[f32; 2]>,
+    ) -> Result<(SweepStep, u64), AnalysisError> {
+        let mut scene = self.base.clone();
+        Self::pose(&self.base, self.settings, i, &mut scene);
+        let report = *bench.render(&scene)?;
+        let rec = SweepStep {
             step: i,
             angle_deg: self.angle(i),
             peak_luminance: [
@@ -243,18 +358,23 @@ impl Sweep {
             lit_pixels: report.lighting.per_pixel,
             ..SweepStep::default()
         };
+        values.clear();
         if self.settings.axis == SweepAxis::Roll {
-            if i == 0 {
-                self.points = bench.surface_points(&self.scene, PROBES)?;
-            }
-            bench.sample_surface(&self.scene, &self.points, &mut self.values)?;
-            if i == 0 {
-                self.first.clone_from(&self.values);
-                self.lo.clone_from(&self.values);
-                self.hi.clone_from(&self.values);
+            bench.sample_surface(&scene, &self.points, values)?;
+        }
+        Ok((rec, report.triangles))
+    }
+
+    /// Appends a measured step, following the probes (roll) from the first step's values.
+    fn record_values(&mut self, mut rec: SweepStep, values: &[[f32; 2]], triangles: u64) {
+        if self.settings.axis == SweepAxis::Roll {
+            if rec.step == 0 {
+                self.first = values.to_vec();
+                self.lo = values.to_vec();
+                self.hi = values.to_vec();
             }
             let mut change = [0.0f64; 2];
-            for (k, v) in self.values.iter().enumerate() {
+            for (k, v) in values.iter().enumerate() {
                 let seen = v[0].is_finite();
                 if seen {
                     rec.probes_visible += 1;
@@ -271,8 +391,8 @@ impl Sweep {
             }
             rec.probe_change = change;
         }
+        self.triangles = triangles;
         self.records.push(rec);
-        Ok(self.records.last())
     }
 
     /// Runs every remaining step, calling `progress(done, total)` after each.

@@ -6,6 +6,7 @@
 //! JSON), `build-web` (a static folder for any web host). Errors go
 //! to stderr with a non-zero exit; nothing panics on bad input.
 
+mod jobs;
 mod png_out;
 mod server;
 mod webbuild;
@@ -75,6 +76,9 @@ enum Command {
         /// Also write the summary (highlight stability, orientation variance) as JSON.
         #[arg(long)]
         summary: Option<PathBuf>,
+        /// Threads to measure steps on (0: one per core); the figures do not depend on it.
+        #[arg(long, default_value_t = 0)]
+        jobs: usize,
     },
     /// Find how much tessellation per-vertex lighting needs: finer and finer versions of the
     /// mesh, each swept on a turntable, until per-vertex lighting stays within the threshold of per-pixel lighting.
@@ -96,6 +100,9 @@ enum Command {
         /// Also draw error against lighting evaluations, SVG or PNG by the file's extension.
         #[arg(long)]
         plot: Option<PathBuf>,
+        /// Threads to measure steps on (0: one per core); the figures do not depend on it.
+        #[arg(long, default_value_t = 0)]
+        jobs: usize,
     },
     /// Compare two same-size sRGB PNG images (e.g. captures from an engine) in dE00.
     Compare {
@@ -328,6 +335,7 @@ fn run(command: Command) -> Result<(), String> {
             plot,
             metric,
             summary,
+            jobs,
         } => {
             let (scene, bench, _) = input.load()?;
             let settings = twinshade::analysis::SweepSettings {
@@ -347,6 +355,7 @@ fn run(command: Command) -> Result<(), String> {
                 &scene,
                 bench,
                 settings,
+                jobs,
                 &out,
                 plot.as_deref(),
                 metric,
@@ -360,6 +369,7 @@ fn run(command: Command) -> Result<(), String> {
             method,
             out,
             plot,
+            jobs,
         } => {
             let (scene, bench, _) = input.load()?;
             let settings = twinshade::analysis::AdviceSettings {
@@ -370,7 +380,7 @@ fn run(command: Command) -> Result<(), String> {
                     MethodArg::Pn => twinshade::geometry::SubdivisionMethod::PnTriangles,
                 },
             };
-            advise(&scene, bench, settings, &out, plot.as_deref())
+            advise(&scene, bench, settings, jobs, &out, plot.as_deref())
         }
         Command::Presets => {
             for p in twinshade::scene::presets() {
@@ -573,6 +583,7 @@ fn sweep(
     scene: &ValidScene,
     mut bench: Workbench,
     settings: twinshade::analysis::SweepSettings,
+    jobs: usize,
     out: &Path,
     plot: Option<&Path>,
     metric: twinshade::analysis::SweepMetric,
@@ -584,18 +595,24 @@ fn sweep(
     let mut sweep = twinshade::analysis::Sweep::new(scene, settings).map_err(|e| e.to_string())?;
     let start = std::time::Instant::now();
     let mut progress = Progress::new("sweep", u64::from(settings.steps));
-    let result = sweep.run(&mut bench, |done, total| {
-        progress.update(u64::from(done), u64::from(total));
-    });
+    let pool = jobs::Jobs::new(jobs, bench.file_mesh())?;
+    let report = |done: u32, total: u32| progress.update(u64::from(done), u64::from(total));
+    let result = if pool.threads() == 1 {
+        sweep.run(&mut bench, report)
+    } else {
+        sweep.run_with(&mut bench, &mut |s, steps| pool.measure(s, steps), report)
+    };
     progress.finish();
     result.map_err(|e| e.to_string())?;
     std::fs::write(out, sweep.to_csv())
         .map_err(|e| format!("cannot write {}: {e}", out.display()))?;
     eprintln!(
-        "twinshade: {} steps of {} in {:.2} s; wrote {}",
+        "twinshade: {} steps of {} in {:.2} s on {} thread{}; wrote {}",
         settings.steps,
         settings.axis.name(),
         start.elapsed().as_secs_f64(),
+        pool.threads(),
+        if pool.threads() == 1 { "" } else { "s" },
         out.display()
     );
     if let Some(path) = plot {
@@ -630,6 +647,7 @@ fn advise(
     scene: &ValidScene,
     mut bench: Workbench,
     settings: twinshade::analysis::AdviceSettings,
+    jobs: usize,
     out: &Path,
     plot: Option<&Path>,
 ) -> Result<(), String> {
@@ -640,17 +658,23 @@ fn advise(
         twinshade::analysis::Advisor::new(scene, settings).map_err(|e| e.to_string())?;
     let start = std::time::Instant::now();
     let mut progress = Progress::new("advise", u64::from(advisor.total_frames()));
-    let result = advisor.run(&mut bench, |done, total| {
-        progress.update(u64::from(done), u64::from(total));
-    });
+    let pool = jobs::Jobs::new(jobs, bench.file_mesh())?;
+    let report = |done: u32, total: u32| progress.update(u64::from(done), u64::from(total));
+    let result = if pool.threads() == 1 {
+        advisor.run(&mut bench, report)
+    } else {
+        advisor.run_with(&mut bench, &mut |s, steps| pool.measure(s, steps), report)
+    };
     progress.finish();
     result.map_err(|e| e.to_string())?;
     let a = advisor.advice();
     eprintln!(
-        "twinshade: {} levels, {} turntable angles each, in {:.2} s",
+        "twinshade: {} levels, {} turntable angles each, in {:.2} s on {} thread{}",
         a.rungs.len(),
         settings.steps,
-        start.elapsed().as_secs_f64()
+        start.elapsed().as_secs_f64(),
+        pool.threads(),
+        if pool.threads() == 1 { "" } else { "s" }
     );
     for (i, r) in a.rungs.iter().enumerate() {
         println!(
