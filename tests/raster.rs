@@ -44,6 +44,7 @@ impl Canvas {
             depth: &mut self.depth,
             width: self.w,
             height: self.h,
+            rows: 0..self.h,
         };
         draw_triangle::<1, P, _>(&mut t, [&rv[0], &rv[1], &rv[2]], Cull::None, &Probe(&count));
         count.get()

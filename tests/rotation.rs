@@ -37,6 +37,7 @@ impl Canvas {
             depth: &mut self.depth,
             width: self.w,
             height: self.w,
+            rows: 0..self.w,
         }
     }
     fn polygon(&mut self, v: &[RasterVertex<1>]) -> u32 {

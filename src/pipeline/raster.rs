@@ -20,7 +20,7 @@ const ONE: i64 = 1 << SUBPIXEL_BITS;
 const HALF: i64 = ONE / 2;
 
 /// A render target: packed RGBA8 colour (R in the lowest byte) and f32 depth, row 0 at the top,
-/// `width` pixels per row, no padding; optionally a second colour buffer for shaders that
+/// `width` pixels per row, no padding, for all or a band of the frame's rows; optionally a second colour buffer for shaders that
 /// produce two pixels per fragment (both panels from one pass).
 pub struct Target<'a> {
     /// Colour, `width * height` pixels.
@@ -31,8 +31,13 @@ pub struct Target<'a> {
     pub depth: &'a mut [f32],
     /// Pixels per row.
     pub width: usize,
-    /// Rows.
+    /// Rows of the whole frame.
     pub height: usize,
+    /// The frame rows the buffers hold (`0..height` for the whole frame; a band of it when
+    /// the frame is drawn in horizontal bands): frame row `y` is buffer row `y - rows.start`.
+    /// Coverage, depth and interpolation are those of the whole frame, so bands put together
+    /// are the whole frame byte for byte.
+    pub rows: std::ops::Range<usize>,
 }
 
 /// A vertex after projection: screen position in pixels (x right, y down), NDC depth, 1/w
@@ -277,9 +282,14 @@ pub struct Coverage {
 
 impl Coverage {
     /// Sets up a triangle from snapped corners; `None` when it is culled, has no area, or
-    /// covers no pixel centre of a `width` x `height` target.
+    /// covers no pixel centre of rows `rows` of a `width`-pixel-wide target.
     #[inline]
-    pub fn new(p: [[i64; 2]; 3], cull: Cull, width: usize, height: usize) -> Option<Coverage> {
+    pub fn new(
+        p: [[i64; 2]; 3],
+        cull: Cull,
+        width: usize,
+        rows: std::ops::Range<usize>,
+    ) -> Option<Coverage> {
         let [[x0, y0], [mut x1, mut y1], [mut x2, mut y2]] = p;
         // Twice the signed area with y down: positive when the corners run clockwise on screen.
         let area = (x1 - x0) * (y2 - y0) - (y1 - y0) * (x2 - x0);
@@ -295,15 +305,15 @@ impl Coverage {
             return None;
         }
         // Pixels whose centre (i * ONE + HALF) lies inside the snapped bounding box.
-        let (w, h) = (width as i64, height as i64);
+        let w = width as i64;
         let min_x = x0.min(x1).min(x2);
         let max_x = x0.max(x1).max(x2);
         let min_y = y0.min(y1).min(y2);
         let max_y = y0.max(y1).max(y2);
         let px0 = ((min_x - HALF + ONE - 1) >> SUBPIXEL_BITS).max(0);
         let px1 = ((max_x - HALF) >> SUBPIXEL_BITS).min(w - 1);
-        let py0 = ((min_y - HALF + ONE - 1) >> SUBPIXEL_BITS).max(0);
-        let py1 = ((max_y - HALF) >> SUBPIXEL_BITS).min(h - 1);
+        let py0 = ((min_y - HALF + ONE - 1) >> SUBPIXEL_BITS).max(rows.start as i64);
+        let py1 = ((max_y - HALF) >> SUBPIXEL_BITS).min(rows.end as i64 - 1);
         if px0 > px1 || py0 > py1 {
             return None;
         }
@@ -327,7 +337,7 @@ pub fn draw_triangle<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
 ) -> u32 {
     let p = tri.map(|v| snap_xy(v.x, v.y));
     let mut batch = Batch::default();
-    let n = match Coverage::new(p, cull, target.width, target.height) {
+    let n = match Coverage::new(p, cull, target.width, target.rows.clone()) {
         Some(c) => fill::<N, PERSP, S>(target, &c, tri, shader, &mut batch),
         None => 0,
     };
@@ -427,7 +437,7 @@ pub fn fill<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
         let z_row = z.origin + z.dy * yf;
         let q_row = q.origin + q.dy * yf;
         let var_row: [f32; N] = std::array::from_fn(|k| var[k].origin + var[k].dy * yf);
-        let base = py as usize * target.width;
+        let base = (py as usize - target.rows.start) * target.width;
         // Four pixels at a time: depth, 1/w and the varyings in lanes, each lane computing
         // exactly what the one-pixel formula gives at its x.
         let mut px = xs;
@@ -528,7 +538,7 @@ fn fill_narrow<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
         for k in 0..N {
             var_row[k] = var[k].origin + var[k].dy * yf;
         }
-        let base = py as usize * target.width;
+        let base = (py as usize - target.rows.start) * target.width;
         let mut ev = row;
         let mut entered = false;
         for px in px0..=px1 {

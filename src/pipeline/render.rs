@@ -54,6 +54,13 @@ pub enum PrepareError {
     Subdivision(String),
     /// Geometry preparation was skipped (a bug: every drawing call prepares first).
     NotPrepared,
+    /// A band of rows that is empty or leaves the panel.
+    Rows {
+        /// The rows asked for.
+        rows: std::ops::Range<u32>,
+        /// The panel's height.
+        height: u32,
+    },
 }
 
 impl std::fmt::Display for PrepareError {
@@ -64,6 +71,11 @@ impl std::fmt::Display for PrepareError {
             }
             PrepareError::Subdivision(m) => f.write_str(m),
             PrepareError::NotPrepared => f.write_str("no mesh prepared"),
+            PrepareError::Rows { rows, height } => write!(
+                f,
+                "rows {}..{} are not a band of a panel {height} pixels high",
+                rows.start, rows.end
+            ),
         }
     }
 }
@@ -219,12 +231,24 @@ impl Renderer {
         scene: &ValidScene,
         fbs: &mut [&mut Framebuffer],
     ) -> Result<Frame, PrepareError> {
+        let rows = 0..scene.panel.height as usize;
+        self.begin_rows(scene, fbs, rows)
+    }
+
+    /// [`Renderer::begin`] for the frame rows `rows` only: the framebuffers are sized to
+    /// hold just those rows (`rows` must lie within the panel).
+    fn begin_rows(
+        &mut self,
+        scene: &ValidScene,
+        fbs: &mut [&mut Framebuffer],
+        rows: std::ops::Range<usize>,
+    ) -> Result<Frame, PrepareError> {
         self.prepare_geometry(scene)?;
         let (width, height) = (scene.panel.width as usize, scene.panel.height as usize);
         let bg = scene.background.0;
         for fb in fbs.iter_mut() {
-            if fb.width() != width || fb.height() != height {
-                fb.resize(width, height);
+            if fb.width() != width || fb.height() != rows.len() {
+                fb.resize(width, rows.len());
             }
             fb.clear(u32::from_le_bytes([bg[0], bg[1], bg[2], 255]));
         }
@@ -332,7 +356,34 @@ impl Renderer {
         gouraud: &mut Framebuffer,
         phong: &mut Framebuffer,
     ) -> Result<[PanelStats; 2], PrepareError> {
-        let f = self.begin(scene, &mut [&mut *gouraud, &mut *phong])?;
+        let rows = 0..scene.panel.height;
+        self.render_pair_rows(scene, rows, gouraud, phong)
+    }
+
+    /// [`Renderer::render_pair`] for a horizontal band of the panels: frame rows `rows`
+    /// only, into framebuffers of the panel's width and `rows.len()` rows. The bands of a
+    /// frame put together are [`Renderer::render_pair`]'s framebuffers byte for byte
+    /// (coverage, depth and interpolation are the whole frame's), so bands can be drawn by
+    /// separate renderers, on separate threads or workers. Fragments count this band's only.
+    ///
+    /// # Errors
+    /// As [`Renderer::render`], and [`PrepareError::Rows`] when `rows` is empty or leaves the
+    /// panel.
+    pub fn render_pair_rows(
+        &mut self,
+        scene: &ValidScene,
+        rows: std::ops::Range<u32>,
+        gouraud: &mut Framebuffer,
+        phong: &mut Framebuffer,
+    ) -> Result<[PanelStats; 2], PrepareError> {
+        if rows.is_empty() || rows.end > scene.panel.height {
+            return Err(PrepareError::Rows {
+                rows,
+                height: scene.panel.height,
+            });
+        }
+        let rows = rows.start as usize..rows.end as usize;
+        let f = self.begin_rows(scene, &mut [&mut *gouraud, &mut *phong], rows.clone())?;
         self.light_vertices(&f.lighting);
         let Some(geo) = self.geometry.as_ref() else {
             return Err(PrepareError::NotPrepared);
@@ -348,6 +399,7 @@ impl Renderer {
             depth,
             width: f.width,
             height: f.height,
+            rows,
         };
         let (c, n, p) = (
             &self.vertex_color,
@@ -446,6 +498,7 @@ impl Renderer {
             depth,
             width,
             height,
+            rows: 0..height,
         };
         let mode =
             if mode == ShadingMode::Exact && !geo.shape.is_some_and(|s| s.has_exact_surface()) {
@@ -800,7 +853,7 @@ impl<'a> DrawContext<'a> {
                 tri.map(|v| self.fixed[v as usize]),
                 cull,
                 target.width,
-                target.height,
+                target.rows.clone(),
             ) else {
                 return 0;
             };
@@ -836,7 +889,7 @@ impl<'a> DrawContext<'a> {
         for i in 1..poly.len - 1 {
             let tri = [&rv[0], &rv[i], &rv[i + 1]];
             let p = tri.map(|v| snap_xy(v.x, v.y));
-            if let Some(cov) = Coverage::new(p, cull, target.width, target.height) {
+            if let Some(cov) = Coverage::new(p, cull, target.width, target.rows.clone()) {
                 shaded += fill::<N, PERSP, S>(target, &cov, tri, shader, batch);
             }
         }

@@ -176,8 +176,8 @@ pub fn fill_polygon<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
         return 0;
     }
     // Scanlines whose centre y (py * ONE + HALF) lies in [min_y, max_y).
-    let py0 = ceil_div(min_y - HALF, ONE).max(0);
-    let py1 = (ceil_div(max_y - HALF, ONE) - 1).min(target.height as i64 - 1);
+    let py0 = ceil_div(min_y - HALF, ONE).max(target.rows.start as i64);
+    let py1 = (ceil_div(max_y - HALF, ONE) - 1).min(target.rows.end as i64 - 1);
     let w = target.width as i64;
     let mut shaded = 0u32;
     let mut crossings = [None::<Crossing<N>>; MAX_CORNERS];
@@ -212,7 +212,7 @@ pub fn fill_polygon<const N: usize, const PERSP: bool, S: FragmentShader<N>>(
             crossings[k] = Some(c);
             count += 1;
         }
-        let base = py as usize * target.width;
+        let base = (py as usize - target.rows.start) * target.width;
         for pair in crossings[..count - count % 2].chunks_exact(2) {
             let (Some(l), Some(r)) = (pair[0], pair[1]) else {
                 continue;
