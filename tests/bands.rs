@@ -109,7 +109,8 @@ fn a_band_outside_the_panel_is_refused() {
     let scene = Scene::default().checked().expect("valid");
     let (mut a, mut b) = (Framebuffer::new(0, 0), Framebuffer::new(0, 0));
     let h = scene.panel.height;
-    for rows in [0..0, 10..5, 0..h + 1, h..h + 2] {
+    let (ten, five) = (10, 5); // a reversed band, as a caller might compute one
+    for rows in [0..0, ten..five, 0..h + 1, h..h + 2] {
         let e = Renderer::new()
             .render_pair_rows(&scene, rows.clone(), &mut a, &mut b)
             .expect_err("refused");
