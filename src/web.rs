@@ -459,6 +459,19 @@ impl Viewer {
         Ok(())
     }
 
+    /// Renders only rows `y0..y1` of the Gouraud and Phong panels (a worker's band of a
+    /// frame): `panelPtr`/`panelLen` of panels 0 and 1 then give that band's bytes, equal to
+    /// the same rows of [`Viewer::render_panels`]. The panels no longer show the whole frame
+    /// (the next `render` draws it again).
+    #[wasm_bindgen(js_name = renderPanelRows)]
+    pub fn render_panel_rows(&mut self, y0: u32, y1: u32) -> Result<(), JsValue> {
+        self.bench
+            .render_panel_rows(&self.scene, y0..y1)
+            .map_err(js_error)?;
+        self.panels_fresh = false;
+        Ok(())
+    }
+
     /// Loads the fixed benchmark scene (docs/REFERENCES.md, "The benchmark scene") at icosphere `level` and
     /// panel size `width` x `height`.
     #[wasm_bindgen(js_name = loadBenchmarkScene)]

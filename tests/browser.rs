@@ -987,5 +987,38 @@ async fn page_end_to_end() {
         "embed: full-page link {fit}"
     );
     c.enter_parent_frame().await.expect("leave the frame");
+
+    // The bench page drawing each frame in bands on 3 Web Workers (each its own wasm
+    // instance) gives the pixels of one thread: the same hash of the last frame's panels.
+    let mut hashes = Vec::new();
+    for workers in [1, 3] {
+        c.goto(&format!(
+            "{url}bench.html?configs=5x200x150&warm=1&frames=3&workers={workers}&name=test"
+        ))
+        .await
+        .expect("open the bench page");
+        let deadline = Instant::now() + Duration::from_secs(60);
+        let result = loop {
+            let text = eval(&c, "return document.getElementById('results').textContent").await;
+            let parsed: Option<Value> = text.as_str().and_then(|t| serde_json::from_str(t).ok());
+            if let Some(r) =
+                parsed.filter(|r| r["results"].as_array().is_some_and(|a| a.len() == 1))
+            {
+                break r;
+            }
+            assert!(
+                Instant::now() < deadline,
+                "bench page with {workers} workers: {text}"
+            );
+            tokio::time::sleep(Duration::from_millis(100)).await;
+        };
+        assert_eq!(result["workers"], json!(workers), "{result}");
+        hashes.push(result["results"][0]["panels_fnv1a"].clone());
+    }
+    assert!(hashes[0].is_string(), "{hashes:?}");
+    assert_eq!(
+        hashes[0], hashes[1],
+        "panels from 3 band workers differ from one thread"
+    );
     c.close().await.expect("close the browser");
 }

@@ -143,6 +143,26 @@ impl Workbench {
         Ok([g, p])
     }
 
+    /// [`Workbench::render_panels`] for frame rows `rows` only (see
+    /// [`Renderer::render_pair_rows`]): the Gouraud and Phong framebuffers then hold just that
+    /// band, byte for byte the band of the whole frame. For drawing one frame on several
+    /// workers; the comparison needs the whole panels.
+    ///
+    /// # Errors
+    /// As [`Renderer::render_pair_rows`].
+    pub fn render_panel_rows(
+        &mut self,
+        scene: &ValidScene,
+        rows: std::ops::Range<u32>,
+    ) -> Result<[PanelStats; 2], PrepareError> {
+        let [g, p] =
+            self.renderer
+                .render_pair_rows(scene, rows, &mut self.gouraud, &mut self.phong)?;
+        self.stats[0] = g;
+        self.stats[1] = p;
+        Ok([g, p])
+    }
+
     /// Probe points spread over the scene's mesh (see [`Renderer::surface_points`]).
     ///
     /// # Errors
