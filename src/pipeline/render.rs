@@ -37,6 +37,7 @@ use crate::scene::settings::{
     GltfNormals, MaterialSource, MeshSource, NormalSettings, NormalSource, ShadingMode,
 };
 use crate::shading::color::{encode_srgb8, srgb_to_linear, Rgb, SrgbEncoder};
+use crate::shading::lanes::{F4, V4};
 use crate::shading::lighting::{Finish, Lighting, Material, ReflectionModel};
 use glam::{Mat3, Quat, Vec3, Vec4};
 use serde::Serialize;
@@ -325,22 +326,41 @@ impl Renderer {
             Some(&m) if !lightings.is_empty() => &lightings[m as usize],
             _ => lighting,
         };
-        if vb.colors.is_empty() {
-            self.vertex_color.extend(
-                n.iter()
-                    .zip(p)
-                    .enumerate()
-                    .map(|(i, (n, p))| of(i).shade(*n, *p)),
-            );
-        } else {
-            self.vertex_color.extend(
-                n.iter()
-                    .zip(p)
-                    .zip(&vb.colors)
-                    .enumerate()
-                    .map(|(i, ((n, p), t))| of(i).shade_tinted(*n, *p, *t)),
-            );
+        // Four vertices at a time where they share a lighting (shade4 gives exactly what
+        // four shade calls give), one at a time otherwise and for the last few.
+        let tints = &vb.colors;
+        let out = &mut self.vertex_color;
+        let lanes = |v: &[Vec3]| V4 {
+            x: F4::new([v[0].x, v[1].x, v[2].x, v[3].x]),
+            y: F4::new([v[0].y, v[1].y, v[2].y, v[3].y]),
+            z: F4::new([v[0].z, v[1].z, v[2].z, v[3].z]),
+        };
+        let one = |i: usize| {
+            if tints.is_empty() {
+                of(i).shade(n[i], p[i])
+            } else {
+                of(i).shade_tinted(n[i], p[i], tints[i])
+            }
+        };
+        let count = n.len();
+        let mut i = 0;
+        while i + 4 <= count {
+            let l = of(i);
+            if (1..4).all(|k| std::ptr::eq(of(i + k), l)) {
+                let (nv, pv) = (lanes(&n[i..i + 4]), lanes(&p[i..i + 4]));
+                let c = if tints.is_empty() {
+                    l.shade4(nv, pv)
+                } else {
+                    l.shade4_tinted(nv, pv, lanes(&tints[i..i + 4]))
+                };
+                let (x, y, z) = (c.x.to_array(), c.y.to_array(), c.z.to_array());
+                out.extend((0..4).map(|k| Vec3::new(x[k], y[k], z[k])));
+            } else {
+                out.extend((i..i + 4).map(one));
+            }
+            i += 4;
         }
+        out.extend((i..count).map(one));
     }
 
     /// Renders the Gouraud and Phong panels in one pass: coverage, depth and interpolation
