@@ -3,9 +3,8 @@
 //! on): three squares side by side, a rough red dielectric, a glossy gold metal (double-sided),
 //! and a white material with red and blue vertex colours (`COLOR_0`).
 
-use twinshade::geometry::{import, Projection};
-use twinshade::scene::{MaterialSource, MeshSource, PanelSize};
-use twinshade::shading::Rgb;
+use twinshade::geometry::import;
+use twinshade::scene::MaterialSource;
 use twinshade::Scene;
 mod common;
 use common::fixtures::materials_gltf;
@@ -29,19 +28,7 @@ fn a_gltf_files_materials_and_vertex_colours_are_read_and_drawn() {
     assert_eq!(m.mesh.colors[9].to_array(), [0.0, 0.0, 1.0]);
     assert_eq!(m.mesh.colors[0].to_array(), [1.0, 1.0, 1.0]);
 
-    let mut scene = Scene {
-        mesh: MeshSource::File {
-            name: "squares.gltf".into(),
-        },
-        panel: PanelSize {
-            width: 240,
-            height: 80,
-        },
-        background: Rgb::BLACK,
-        ..Scene::default()
-    };
-    scene.camera.projection = Projection::Orthographic;
-    scene.camera.ortho_height = 0.8;
+    let mut scene = common::squares_scene("squares.gltf");
     let render = |scene: &Scene| common::render_file_mesh(&m.mesh, scene);
     // Pixels in the middle of each square's left and right halves (the fit puts the three
     // squares across the panel).

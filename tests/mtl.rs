@@ -5,8 +5,8 @@
 
 use glam::Vec3;
 use std::io::Cursor;
-use twinshade::geometry::{import, import_with, Companion, Projection, Reflectance};
-use twinshade::scene::{MaterialSource, MeshSource, PanelSize};
+use twinshade::geometry::{import, import_with, Companion, Reflectance};
+use twinshade::scene::MaterialSource;
 use twinshade::shading::{Finish, Material, ReflectionModel, Rgb};
 use twinshade::Scene;
 mod common;
@@ -245,22 +245,9 @@ fn a_broken_library_is_named_with_its_line() {
     assert!(e.to_string().contains("no material"), "{e}");
 }
 
-/// A scene looking straight at the squares (orthographic, light from the camera).
+/// The squares' scene (see `common::squares_scene`).
 fn squares_scene() -> Scene {
-    let mut scene = Scene {
-        mesh: MeshSource::File {
-            name: "squares.obj".into(),
-        },
-        panel: PanelSize {
-            width: 240,
-            height: 80,
-        },
-        background: Rgb::BLACK,
-        ..Scene::default()
-    };
-    scene.camera.projection = Projection::Orthographic;
-    scene.camera.ortho_height = 0.8;
-    scene
+    common::squares_scene("squares.obj")
 }
 
 #[test]

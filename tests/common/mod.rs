@@ -17,6 +17,23 @@ pub fn crate_root() -> PathBuf {
     PathBuf::from(env!("CARGO_MANIFEST_DIR"))
 }
 
+/// A scene looking straight at the three squares of the material fixtures (the file mesh
+/// `name`): orthographic, 240x80 panels, a black background.
+pub fn squares_scene(name: &str) -> twinshade::Scene {
+    let mut scene = twinshade::Scene {
+        mesh: twinshade::scene::MeshSource::File { name: name.into() },
+        panel: twinshade::scene::PanelSize {
+            width: 240,
+            height: 80,
+        },
+        background: twinshade::shading::Rgb::BLACK,
+        ..twinshade::Scene::default()
+    };
+    scene.camera.projection = twinshade::geometry::Projection::Orthographic;
+    scene.camera.ortho_height = 0.8;
+    scene
+}
+
 /// The per-vertex and per-pixel panels of `scene` drawn from the file mesh `mesh`.
 pub fn render_file_mesh(
     mesh: &twinshade::geometry::Mesh,
