@@ -988,6 +988,56 @@ async fn page_end_to_end() {
     );
     c.enter_parent_frame().await.expect("leave the frame");
 
+    // The page's drag frames on 3 band workers: the canvases are cleared, one frame is drawn
+    // by the workers alone, and both shading panels equal the native render, byte for byte;
+    // then the same with a mesh file the workers were sent.
+    let hosted = common::crate_root().join("www/pkg/test-workers.gltf");
+    let file = common::fixtures::materials_gltf();
+    std::fs::write(&hosted, &file).expect("host the glTF");
+    for mesh in [None, Some("pkg/test-workers.gltf")] {
+        let address = match mesh {
+            None => format!("{url}?size=240x180&workers=3"),
+            Some(m) => format!("{url}?size=240x180&workers=3&mesh={m}"),
+        };
+        c.goto(&address).await.expect("open with workers");
+        wait_ready(&c).await;
+        let workers = eval(&c, "return window.twinshade.workers()").await;
+        assert_eq!(workers, json!(3), "three band workers: {workers}");
+        c.execute(
+            "for (const c of document.querySelectorAll('canvas[data-panel]'))
+               c.getContext('2d').clearRect(0, 0, c.width, c.height);
+             return window.twinshade.drawBanded();",
+            vec![],
+        )
+        .await
+        .expect("a banded frame");
+        let json = eval(&c, "return window.twinshade.sceneJson()").await;
+        let scene =
+            Scene::from_json(json.as_str().expect("scene JSON")).expect("page scene is valid");
+        let mut bench = Workbench::new();
+        if mesh.is_some() {
+            bench.set_file_mesh(
+                twinshade::geometry::import("test-workers.gltf", &file)
+                    .expect("imports")
+                    .mesh,
+            );
+        }
+        bench.render(&scene).expect("native render");
+        for (name, panel) in [
+            ("per_vertex", Panel::PerVertex),
+            ("per_pixel", Panel::PerPixel),
+        ] {
+            let (_, _, page) = canvas(&c, name).await;
+            assert!(
+                page == bench.framebuffer(panel).bytes(),
+                "{mesh:?}: the {name} panel drawn by 3 workers differs from the native render"
+            );
+        }
+    }
+    let _ = std::fs::remove_file(&hosted);
+    let errors = eval(&c, "return window.twinshadeErrors || []").await;
+    assert_eq!(errors, json!([]), "console errors with workers");
+
     // The bench page drawing each frame in bands on 3 Web Workers (each its own wasm
     // instance) gives the pixels of one thread: the same hash of the last frame's panels.
     let mut hashes = Vec::new();

@@ -6,9 +6,11 @@
 //   controls  settings column, turning by drag/keys  presets   presets, presentation mode
 //   files     mesh files in, exports out             jobs      long work in slices, plots
 //   motion    turntable and sweeps                   advice    tessellation advice
+//   workers   drag frames drawn in bands on Web Workers (band-worker.js)
 import init, { Viewer } from "./pkg/twinshade.js";
 import { app, $, mark, showProblem, says } from "./js/state.js";
-import { fitPanels, fixPanelSize, requestRender } from "./js/loop.js";
+import { drawBanded, fitPanels, fixPanelSize, requestRender } from "./js/loop.js";
+import { startWorkers, workerCount } from "./js/workers.js";
 import { copyLink, fullPageAddress, openFromAddress } from "./js/link.js";
 import { bindControls, bindTurning, buildControls, syncControls } from "./js/controls.js";
 import { bindPresets } from "./js/presets.js";
@@ -22,6 +24,9 @@ async function start() {
   app.viewer = new Viewer();
   app.vocab = Viewer.vocabulary();
   const q = new URLSearchParams(location.search);
+  // Drag frames on every core (?workers=N; default one per core, capped; 1: none).
+  const workers = workerCount(q);
+  if (workers > 1) startWorkers(workers);
   if (q.has("embed")) {
     app.embed = true;
     mark("embed", "1");
@@ -67,6 +72,8 @@ async function start() {
     sweepCsv: () => app.viewer.sweepCsv(),
     advice: () => app.viewer.advice(),
     loadMesh: (name, bytes, companions) => loadMeshBytes(name, bytes, companions),
+    workers: () => (app.pool && app.pool.ready() ? app.pool.size : 1),
+    drawBanded: () => (app.pool && app.pool.ready() ? drawBanded(performance.now(), false) : Promise.resolve()),
     sheetDataUrl: () => {
       const c = sheetCanvas();
       return [c.width, c.height, c.toDataURL("image/png")];

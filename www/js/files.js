@@ -14,6 +14,7 @@ export function loadMeshBytes(name, bytes, companions = []) {
   try {
     const given = companions.map(([n, b]) => [n, new Uint8Array(b)]);
     const info = app.viewer.loadMesh(name, new Uint8Array(bytes), given);
+    if (app.pool) app.pool.loadMesh(name, bytes, given, info.triangles);
     showProblem("");
     const notes = info.notes.length ? ` Note: ${info.notes.join("; ")}.` : "";
     $("mesh-info").textContent =

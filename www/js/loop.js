@@ -30,6 +30,10 @@ function frame() {
   const fast = f.quick;
   f.quick = false;
   const t0 = performance.now();
+  if (fast && app.pool && app.pool.ready()) {
+    drawBanded(t0);
+    return;
+  }
   try {
     if (fast) {
       v.renderPanels();
@@ -64,6 +68,51 @@ function frame() {
     drawLegend();
   }
   mark("ready", "1");
+}
+
+/** A drag frame drawn in bands by the workers (workers.js); one frame at a time: a frame
+ * asked for meanwhile follows when the bands are in. `settle` schedules the full frame
+ * (with the comparison) that follows a drag; tests leave it out to read the banded frame. */
+export function drawBanded(t0 = performance.now(), settle = true) {
+  const f = app.frame;
+  const pool = app.pool;
+  if (settle) {
+    clearTimeout(f.settleTimer);
+    f.settleTimer = setTimeout(() => requestRender(false), SETTLE_MS);
+  }
+  if (pool.busy) {
+    f.again = true;
+    return Promise.resolve();
+  }
+  const v = app.viewer;
+  const w = v.width();
+  const h = v.height();
+  return pool.draw(v.sceneJson(), h).then((bands) => {
+    for (const canvas of canvases()) {
+      const k = ["per_vertex", "per_pixel"].indexOf(canvas.dataset.panel);
+      if (k < 0) continue;
+      if (canvas.width !== w || canvas.height !== h) {
+        canvas.width = w;
+        canvas.height = h;
+      }
+      const ctx = canvas.getContext("2d");
+      for (const b of bands) {
+        const len = b.bytes.length / 2;
+        const px = new Uint8ClampedArray(b.bytes.buffer, k * len, len);
+        ctx.putImageData(new ImageData(px, w, b.y1 - b.y0), 0, b.y0);
+      }
+    }
+    mark("stale", "1");
+    app.lastFrameMs = performance.now() - t0;
+    mark("ready", "1");
+  }, () => {
+    pool.usable = false; // a worker failed: one thread from now on
+  }).finally(() => {
+    if (f.again) {
+      f.again = false;
+      requestRender(true);
+    }
+  });
 }
 
 /** Sizes the panels to the layout, in device pixels so they stay sharp on high-DPI screens. */

@@ -12,7 +12,8 @@ export const app = {
   embed: false, // ?embed: panels and legend only
   fitToLayout: true, // false with ?size=WxH
   lastFrameMs: 0,
-  frame: { pending: false, quick: false, settleTimer: 0 },
+  frame: { pending: false, quick: false, settleTimer: 0, again: false },
+  pool: null, // the band workers drawing drag frames (workers.js), when there are any
   lastLink: "",
   legendKey: "",
   presets: [], // [{id, title, caption}]
